@@ -1,0 +1,52 @@
+// Shard planning: contiguous target ranges on block boundaries, balanced by work.
+
+/** A contiguous target range [start, end) with its in-edge count; start is a multiple of the block size. */
+export interface ShardRange {
+  index: number;
+  start: number;
+  end: number;
+  edges: number;
+}
+
+/**
+ * Splits 0..n into min(count, blocks) non-empty ranges cut on multiples of blockNodes, balancing
+ * cost(range) = in-edges + nodes (the per-node work of a step is not free). Boundary i goes to the block edge whose
+ * prefix cost is nearest to i/k of the total, keeping at least one block per shard. Empty for n = 0.
+ * @example planShards(g.inOffsets, g.n, 4, BLOCK_NODES) // [{ index: 0, start: 0, end: 8192, edges: … }, …]
+ */
+export function planShards(inOffsets: Uint32Array, n: number, count: number, blockNodes: number): ShardRange[] {
+  if (!Number.isInteger(count) || count < 1) throw new RangeError(`count must be a positive integer. Value: ${count}`);
+  if (!Number.isInteger(blockNodes) || blockNodes < 1) {
+    throw new RangeError(`blockNodes must be a positive integer. Value: ${blockNodes}`);
+  }
+  if (inOffsets.length !== n + 1) throw new RangeError(`inOffsets.length must be ${n + 1}. Value: ${inOffsets.length}`);
+  if (n === 0) return [];
+  const blocks = Math.ceil(n / blockNodes);
+  const k = Math.min(count, blocks);
+  const node = (j: number) => Math.min(j * blockNodes, n);
+  const cost = (j: number) => inOffsets[node(j)] + node(j);
+  const total = cost(blocks);
+  const cuts = [0];
+  for (let i = 1; i < k; i++) {
+    const target = (total * i) / k;
+    const minJ = cuts[i - 1] + 1;
+    const maxJ = blocks - (k - i);
+    let lo = minJ;
+    let hi = maxJ;
+    while (lo < hi) {
+      const mid = (lo + hi) >>> 1;
+      if (cost(mid) < target) lo = mid + 1;
+      else hi = mid;
+    }
+    if (lo > minJ && target - cost(lo - 1) < cost(lo) - target) lo--;
+    cuts.push(lo);
+  }
+  cuts.push(blocks);
+  const shards: ShardRange[] = [];
+  for (let i = 0; i < k; i++) {
+    const start = node(cuts[i]);
+    const end = node(cuts[i + 1]);
+    shards.push({ index: i, start, end, edges: inOffsets[end] - inOffsets[start] });
+  }
+  return shards;
+}

@@ -1,0 +1,44 @@
+// A pool of worker threads that run shard steps; one pool can serve many runs in turn.
+import { Piscina } from "piscina";
+import type { ShardDone, ShardTask } from "../tasks/rank-shard-task";
+
+// Workers are .ts under tsx/Vitest and .js once built: load the task file with the same extension as this module.
+const EXT = import.meta.url.endsWith(".ts") ? ".ts" : ".js";
+const TASK_FILE = new URL(`../tasks/rank-shard${EXT}`, import.meta.url).href;
+
+export class RankPool {
+  readonly threads: number;
+  #pool: Piscina<ShardTask, ShardDone>;
+  #busy = 0;
+
+  constructor(opts: { threads: number }) {
+    if (!Number.isInteger(opts.threads) || opts.threads < 1) {
+      throw new RangeError(`threads must be a positive integer. Value: ${opts.threads}`);
+    }
+    this.threads = opts.threads;
+    this.#pool = new Piscina<ShardTask, ShardDone>({
+      filename: TASK_FILE,
+      minThreads: opts.threads,
+      maxThreads: opts.threads,
+      idleTimeout: 60_000,
+      execArgv: EXT === ".ts" ? ["--import", "tsx"] : [],
+    });
+  }
+
+  async run(task: ShardTask, signal: AbortSignal): Promise<ShardDone> {
+    this.#busy++;
+    try {
+      return await this.#pool.run(task, { signal });
+    } finally {
+      this.#busy--;
+    }
+  }
+
+  stats(): { threads: number; busy: number } {
+    return { threads: this.threads, busy: this.#busy };
+  }
+
+  async close(): Promise<void> {
+    await this.#pool.close();
+  }
+}

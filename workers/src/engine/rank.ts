@@ -1,0 +1,191 @@
+// The iteration driver: power iteration over a piscina pool, shared memory, layout-independent global sums.
+import { availableParallelism } from "node:os";
+import type { Graph } from "../core/graph";
+import { combineBlocks } from "../core/pull-step-csr";
+import { planShards } from "../core/shard-plan";
+import { stepScalars } from "../core/teleport";
+import { RankPool } from "./rank-pool";
+import { prepareRunState } from "./run-state";
+import { DEFAULT_RETRY, runShard, type FaultPlan, type RetryPolicy, type ShardState } from "./shard-attempts";
+
+export { RankPool } from "./rank-pool";
+export type { FaultPlan, RetryPolicy, ShardState } from "./shard-attempts";
+
+export interface RankParams {
+  damping: number;
+  tolerance: number;
+  maxIterations: number;
+  dangling: "teleport" | "uniform";
+  teleport: { kind: "uniform" } | { kind: "seeds"; seeds: { node: number; weight: number }[] };
+  weighted: boolean;
+  threads?: number;
+  shards?: number;
+}
+
+/** Progress after the step that produced x_k: residual = ‖x_k − x_{k−1}‖₁, danglingMass = D_k. */
+export interface IterationProgress {
+  k: number;
+  residual: number;
+  danglingMass: number;
+  elapsedMs: number;
+  shards: ShardState[];
+}
+
+export interface RankHooks {
+  signal?: AbortSignal;
+  onIteration?(p: IterationProgress): void | Promise<void>;
+  checkpointEvery?: number;
+  onCheckpoint?(k: number, x: Float64Array): void | Promise<void>;
+  /** Continue from a saved iterate x_k; iteration numbers (and maxIterations) continue from k. */
+  resumeFrom?: { k: number; x: Float64Array };
+  retry?: RetryPolicy;
+  faults?: FaultPlan[];
+}
+
+export interface RankResult {
+  scores: Float64Array;
+  iterations: number;
+  residual: number;
+  errorBound: number;
+  converged: boolean;
+  stopReason: "converged" | "iteration-cap" | "canceled" | "failed" | "needs-attention";
+  /** residuals[i] and danglingMass[i] belong to iteration (first k of this call) + i. */
+  residuals: number[];
+  danglingMass: number[];
+  timings: { setupMs: number; iterateMs: number; perIterationMs: number };
+  failure?: { shard: number; attempts: number; lastError: string };
+}
+
+/** Largest |Σx − 1| tolerated: rounding stays orders of magnitude below; a leak of mass does not. */
+export const MASS_DRIFT_LIMIT = 1e-8;
+
+let runCounter = 0;
+
+function checkParams(p: RankParams, hooks: RankHooks): void {
+  const bad = (name: string, v: unknown, why: string) => new RangeError(`${name} ${why}. Value: ${String(v)}`);
+  if (!(p.damping >= 0 && p.damping < 1)) throw bad("damping", p.damping, "must be in [0, 1)");
+  if (!(p.tolerance >= 0 && p.tolerance < Infinity)) throw bad("tolerance", p.tolerance, "must be finite and ≥ 0");
+  if (!Number.isInteger(p.maxIterations) || p.maxIterations < 0) {
+    throw bad("maxIterations", p.maxIterations, "must be an integer ≥ 0");
+  }
+  if (p.dangling !== "teleport" && p.dangling !== "uniform") throw bad("dangling", p.dangling, "must be teleport or uniform");
+  for (const key of ["threads", "shards"] as const) {
+    const v = p[key];
+    if (v !== undefined && (!Number.isInteger(v) || v < 1)) throw bad(key, v, "must be a positive integer");
+  }
+  const r = hooks.retry;
+  if (r && (!Number.isInteger(r.attempts) || r.attempts < 1)) throw bad("retry.attempts", r.attempts, "must be ≥ 1");
+  const every = hooks.checkpointEvery;
+  if (every !== undefined && (!Number.isInteger(every) || every < 1)) throw bad("checkpointEvery", every, "must be ≥ 1");
+  const from = hooks.resumeFrom;
+  if (from && (!Number.isInteger(from.k) || from.k < 0)) throw bad("resumeFrom.k", from.k, "must be an integer ≥ 0");
+}
+
+/**
+ * Power iteration x_{k+1} = α(P^T x_k + D_k·d) + (1−α)t from x_0 = t (or resumeFrom.x), until ‖x_{k+1} − x_k‖₁ <
+ * tolerance or k = maxIterations. Bit-identical for any thread count, shard count and scheduling.
+ * @example const r = await rank(graph, { damping: 0.85, tolerance: 1e-9, maxIterations: 200, dangling: "teleport", teleport: { kind: "uniform" }, weighted: false })
+ */
+export async function rank(graph: Graph, params: RankParams, opts: { pool?: RankPool } & RankHooks = {}): Promise<RankResult> {
+  const t0 = performance.now();
+  checkParams(params, opts);
+  if (graph.n === 0) throw new RangeError("graph.n must be ≥ 1. Value: 0");
+  const ownPool = opts.pool ? null : new RankPool({ threads: params.threads ?? availableParallelism() });
+  const pool = opts.pool ?? (ownPool as RankPool);
+  try {
+    return await iterate(graph, params, opts, pool, t0);
+  } finally {
+    await ownPool?.close();
+  }
+}
+
+async function iterate(graph: Graph, params: RankParams, hooks: RankHooks, pool: RankPool, t0: number): Promise<RankResult> {
+  const seeds = params.teleport.kind === "seeds" ? params.teleport.seeds : null;
+  const s = prepareRunState(graph, { weighted: params.weighted, seeds, start: hooks.resumeFrom?.x ?? null });
+  const runId = `${process.pid}-${++runCounter}`;
+  const plan = planShards(s.views.inOffsets, s.n, params.shards ?? pool.threads, s.blockNodes);
+  const shards: ShardState[] = plan.map((r) => ({ ...r, state: "queued", attempts: 0 }));
+  const retry = hooks.retry ?? DEFAULT_RETRY;
+  const faults = hooks.faults ?? [];
+  const alpha = params.damping;
+  const residuals: number[] = [];
+  const danglingMass: number[] = [];
+  let k = hooks.resumeFrom?.k ?? 0;
+  let residual = Infinity;
+  let stopReason: RankResult["stopReason"] = "iteration-cap";
+  let failure: RankResult["failure"];
+  const driftMessage = (mass: number, at: number) =>
+    `probability mass drifted: |Σx − 1| = ${Math.abs(mass - 1)} at iteration ${at} (limit ${MASS_DRIFT_LIMIT})`;
+  if (!(Math.abs(s.mass - 1) <= MASS_DRIFT_LIMIT)) {
+    stopReason = "failed";
+    failure = { shard: -1, attempts: 0, lastError: driftMessage(s.mass, k) };
+  }
+  const t1 = performance.now();
+  while (!failure && k < params.maxIterations) {
+    if (hooks.signal?.aborted) {
+      stopReason = "canceled";
+      break;
+    }
+    const tIter = performance.now();
+    const scalars = stepScalars(alpha, s.danglingMass, s.n, s.seeded, params.dangling);
+    for (const st of shards) {
+      st.state = "queued";
+      st.attempts = 0;
+      delete st.lastError;
+    }
+    const task = { runId, buffers: s.buffers, cur: s.cur, scalars, blockNodes: s.blockNodes };
+    const outcomes = await Promise.all(
+      shards.map((st) => runShard(pool, { ...task, start: st.start, end: st.end }, st, k + 1, retry, faults, hooks.signal)),
+    );
+    if (outcomes.includes("canceled")) {
+      stopReason = "canceled";
+      break;
+    }
+    const failed = shards.find((st) => st.state === "failed");
+    if (failed) {
+      stopReason = "needs-attention";
+      failure = { shard: failed.index, attempts: failed.attempts, lastError: failed.lastError ?? "unknown error" };
+      break;
+    }
+    const sums = combineBlocks(s.views.blockSums, s.blocks);
+    if (!(Math.abs(sums.sum - 1) <= MASS_DRIFT_LIMIT)) {
+      stopReason = "failed";
+      failure = { shard: -1, attempts: 0, lastError: driftMessage(sums.sum, k + 1) };
+      break;
+    }
+    s.cur = s.cur === 0 ? 1 : 0;
+    s.danglingMass = sums.dangling;
+    residual = sums.residual;
+    k++;
+    residuals.push(residual);
+    danglingMass.push(sums.dangling);
+    await hooks.onIteration?.({
+      k,
+      residual,
+      danglingMass: sums.dangling,
+      elapsedMs: performance.now() - tIter,
+      shards: shards.map((st) => ({ ...st })),
+    });
+    if (hooks.onCheckpoint && hooks.checkpointEvery && k % hooks.checkpointEvery === 0) {
+      await hooks.onCheckpoint(k, s.views.x[s.cur].slice());
+    }
+    if (residual < params.tolerance) {
+      stopReason = "converged";
+      break;
+    }
+  }
+  const t2 = performance.now();
+  const steps = residuals.length;
+  return {
+    scores: s.views.x[s.cur].slice(),
+    iterations: k,
+    residual,
+    errorBound: (alpha / (1 - alpha)) * residual,
+    converged: stopReason === "converged",
+    stopReason,
+    residuals,
+    danglingMass,
+    timings: { setupMs: t1 - t0, iterateMs: t2 - t1, perIterationMs: steps ? (t2 - t1) / steps : 0 },
+    ...(failure ? { failure } : {}),
+  };
+}
