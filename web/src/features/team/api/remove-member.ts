@@ -1,0 +1,15 @@
+import { useMutation, useQueryClient } from "@tanstack/react-query";
+import { api } from "../../../lib/api-client";
+import { getTeamQueryOptions } from "./get-team";
+
+export function removeMember({ userId }: { userId: string }) {
+  return api.delete(`/team/members/${encodeURIComponent(userId)}`, null);
+}
+
+export function useRemoveMember() {
+  const queryClient = useQueryClient();
+  return useMutation({
+    mutationFn: removeMember,
+    onSuccess: () => queryClient.invalidateQueries({ queryKey: getTeamQueryOptions().queryKey }),
+  });
+}

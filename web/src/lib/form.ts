@@ -1,0 +1,18 @@
+import type { z } from "zod";
+
+export type FieldErrors = Partial<Record<string, string>>;
+
+/** Parses form values with a schema; on failure returns the first message per field. */
+export function validate<S extends z.ZodType>(
+  schema: S,
+  values: unknown,
+): { ok: true; data: z.infer<S> } | { ok: false; errors: FieldErrors } {
+  const result = schema.safeParse(values);
+  if (result.success) return { ok: true, data: result.data };
+  const errors: FieldErrors = {};
+  for (const issue of result.error.issues) {
+    const key = issue.path.length ? String(issue.path[0]) : "form";
+    errors[key] ??= issue.message;
+  }
+  return { ok: false, errors };
+}
