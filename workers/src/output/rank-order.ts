@@ -1,0 +1,123 @@
+// Rank order of a score vector: score descending, ties by ascending dense id.
+
+const RADIX_BITS = 16;
+const RADIX = 1 << RADIX_BITS;
+
+/**
+ * order[i] = the dense id at rank i + 1. LSD radix sort on the float64 bits mapped to a descending unsigned key
+ * (−0 counts as +0; NaN order is unspecified), stable from ascending ids so ties keep ascending id. O(n), 4 passes.
+ * @example rankOrder(Float64Array.of(0.2, 0.5, 0.2)) // [1, 0, 2]
+ */
+export function rankOrder(scores: Float64Array): Uint32Array {
+  const n = scores.length;
+  const words = new Uint32Array(scores.buffer, scores.byteOffset, n * 2);
+  let hi = new Uint32Array(n);
+  let lo = new Uint32Array(n);
+  let idx = new Uint32Array(n);
+  for (let i = 0; i < n; i++) {
+    let h = words[2 * i + 1];
+    let l = words[2 * i];
+    if (h === 0x80000000 && l === 0) h = 0;
+    // Descending key = complement of the ascending float key: negatives keep their bits, positives flip all but sign.
+    if (h & 0x80000000) {
+      hi[i] = h;
+      lo[i] = l;
+    } else {
+      hi[i] = (h ^ 0x7fffffff) >>> 0;
+      lo[i] = ~l >>> 0;
+    }
+    idx[i] = i;
+  }
+  let hi2 = new Uint32Array(n);
+  let lo2 = new Uint32Array(n);
+  let idx2 = new Uint32Array(n);
+  const count = new Uint32Array(RADIX);
+  for (let pass = 0; pass < 4; pass++) {
+    const src = pass < 2 ? lo : hi;
+    const shift = (pass & 1) * RADIX_BITS;
+    count.fill(0);
+    for (let i = 0; i < n; i++) count[(src[i] >>> shift) & (RADIX - 1)]++;
+    if (n > 0 && count[(src[0] >>> shift) & (RADIX - 1)] === n) continue;
+    let sum = 0;
+    for (let d = 0; d < RADIX; d++) {
+      const c = count[d];
+      count[d] = sum;
+      sum += c;
+    }
+    for (let i = 0; i < n; i++) {
+      const at = count[(src[i] >>> shift) & (RADIX - 1)]++;
+      hi2[at] = hi[i];
+      lo2[at] = lo[i];
+      idx2[at] = idx[i];
+    }
+    [hi, hi2] = [hi2, hi];
+    [lo, lo2] = [lo2, lo];
+    [idx, idx2] = [idx2, idx];
+  }
+  return idx;
+}
+
+/**
+ * ranks[v] = 1-based rank of node v (1 = highest score, ties by ascending dense id).
+ * @example ranks(Float64Array.of(0.2, 0.5, 0.2)) // [2, 1, 3]
+ */
+export function ranks(scores: Float64Array): Uint32Array {
+  const order = rankOrder(scores);
+  const r = new Uint32Array(order.length);
+  for (let i = 0; i < order.length; i++) r[order[i]] = i + 1;
+  return r;
+}
+
+/**
+ * The dense ids of the k best nodes in rank order, without sorting all n: a bounded heap whose root is the worst
+ * node kept. O(n log k).
+ * @example topK(Float64Array.of(0.2, 0.5, 0.3), 2) // [1, 2]
+ */
+export function topK(scores: Float64Array, k: number): Uint32Array {
+  if (!Number.isInteger(k) || k < 0) throw new RangeError(`k must be an integer ≥ 0. Value: ${k}`);
+  const n = scores.length;
+  const size = Math.min(k, n);
+  const heap = new Uint32Array(size);
+  // a ranks below b
+  const worse = (a: number, b: number) => scores[a] < scores[b] || (scores[a] === scores[b] && a > b);
+  const siftDown = (from: number, len: number) => {
+    let i = from;
+    for (;;) {
+      const l = 2 * i + 1;
+      if (l >= len) return;
+      const r = l + 1;
+      const w = r < len && worse(heap[r], heap[l]) ? r : l;
+      if (!worse(heap[w], heap[i])) return;
+      const t = heap[i];
+      heap[i] = heap[w];
+      heap[w] = t;
+      i = w;
+    }
+  };
+  let len = 0;
+  for (let v = 0; v < n && size > 0; v++) {
+    if (len < size) {
+      heap[len] = v;
+      let i = len++;
+      while (i > 0) {
+        const p = (i - 1) >> 1;
+        if (!worse(heap[i], heap[p])) break;
+        const t = heap[i];
+        heap[i] = heap[p];
+        heap[p] = t;
+        i = p;
+      }
+    } else if (worse(heap[0], v)) {
+      heap[0] = v;
+      siftDown(0, len);
+    }
+  }
+  // Pop the worst to the back repeatedly: the array ends best-first.
+  for (let end = len - 1; end > 0; end--) {
+    const t = heap[0];
+    heap[0] = heap[end];
+    heap[end] = t;
+    siftDown(0, end);
+  }
+  return heap;
+}
