@@ -1,0 +1,186 @@
+// The pure core: step kernels, their checked wrappers, shard planning and the run's shared state.
+import { describe, expect, it } from "vitest";
+import { BLOCK_NODES, fromDenseEdges } from "../../workers/src/core/graph";
+import { BLOCK_SLOTS, combineBlocks } from "../../workers/src/core/pull-step-csr";
+import { checkGraph, contributions, pullStep } from "../../workers/src/core/pull-step";
+import { planShards } from "../../workers/src/core/shard-plan";
+import { outDegree, stepScalars, teleportVector } from "../../workers/src/core/teleport";
+import { prepareRunState } from "../../workers/src/engine/run-state";
+import { applyPolicies, randomEdges, sameBits, toGraph } from "./rank-test-graphs";
+
+const BN = 4;
+
+function stepArgs(n: number) {
+  // 0→1, 0→2, 1→2, 2→0, 3→2, 4 dangling, 5→4 (weights 1, 3, 1, 2, 1, 1)
+  const g = fromDenseEdges(6, Uint32Array.of(0, 0, 1, 2, 3, 5), Uint32Array.of(1, 2, 2, 0, 2, 4), Float64Array.of(1, 3, 1, 2, 1, 1));
+  const x0 = Float64Array.from({ length: n }, (_, i) => (i + 1) / 21);
+  const c0 = new Float64Array(n);
+  const blockSums = new Float64Array(Math.ceil(n / BN) * BLOCK_SLOTS);
+  contributions({ start: 0, end: n, x: x0, outWeight: g.outWeight, c: c0, blockSums, blockNodes: BN });
+  return {
+    g,
+    a: {
+      start: 0,
+      end: n,
+      inOffsets: g.inOffsets,
+      sources: g.sources,
+      weights: g.weights,
+      outWeight: g.outWeight,
+      c0,
+      x0,
+      x1: new Float64Array(n),
+      c1: new Float64Array(n),
+      scalars: { alpha: 0.5, p: 0, q: 0.25 / n },
+      tel: null,
+      blockSums,
+      blockNodes: BN,
+    },
+  };
+}
+
+describe("pullStep", () => {
+  it("computes x1 = α·Σ c0[u]·w + q, c1 = x1/W and the block sums", () => {
+    const { g, a } = stepArgs(6);
+    const x = a.x0;
+    pullStep(a);
+    const W = [4, 1, 2, 1, 0, 1];
+    const inflow = [(x[2] / 2) * 2, x[0] / 4, (x[0] / 4) * 3 + x[1] + x[3], 0, x[5], 0];
+    inflow.forEach((s, v) => expect(a.x1[v]).toBeCloseTo(0.5 * s + 0.25 / 6, 15));
+    W.forEach((w, v) => expect(a.c1[v]).toBe(w ? a.x1[v] / w : 0));
+    expect(Array.from(g.outWeight)).toEqual(W);
+    const sums = combineBlocks(a.blockSums, 2);
+    expect(sums.dangling).toBe(a.x1[4]);
+    expect(sums.sum).toBeCloseTo(a.x1.reduce((s, v) => s + v, 0), 15);
+    expect(sums.residual).toBeCloseTo(a.x1.reduce((s, v, i) => s + Math.abs(v - x[i]), 0), 15);
+  });
+
+  it("gives the same bits computed as one range or as block-aligned pieces", () => {
+    const e = applyPolicies(randomEdges(3, 1000, 6), true);
+    const g = toGraph(e);
+    const n = g.n;
+    const x0 = new Float64Array(n).fill(1 / n);
+    const c0 = new Float64Array(n);
+    const bs = () => new Float64Array(Math.ceil(n / 64) * BLOCK_SLOTS);
+    contributions({ start: 0, end: n, x: x0, outWeight: g.outWeight, c: c0, blockSums: bs(), blockNodes: 64 });
+    const run = (cuts: number[]) => {
+      const x1 = new Float64Array(n);
+      const c1 = new Float64Array(n);
+      const blockSums = bs();
+      for (let i = 0; i + 1 < cuts.length; i++) {
+        pullStep({ ...g, start: cuts[i], end: cuts[i + 1], c0, x0, x1, c1, tel: null, blockSums, blockNodes: 64,
+          scalars: { alpha: 0.85, p: 0, q: 0.15 / n } });
+      }
+      return { x1, c1, blockSums };
+    };
+    const whole = run([0, n]);
+    const parts = run([0, 64, 640, 704, n]);
+    expect(sameBits(whole.x1, parts.x1)).toBe(true);
+    expect(sameBits(whole.c1, parts.c1)).toBe(true);
+    expect(sameBits(whole.blockSums, parts.blockSums)).toBe(true);
+  });
+
+  it("an empty range writes nothing", () => {
+    const { a } = stepArgs(6);
+    pullStep({ ...a, start: 4, end: 4 });
+    expect(a.x1.every((v) => v === 0)).toBe(true);
+  });
+
+  it("rejects bad shapes with a RangeError naming the argument and value", () => {
+    const { a } = stepArgs(6);
+    expect(() => pullStep({ ...a, x1: new Float64Array(5) })).toThrow(/x1\.length must be 6\. Value: 5/);
+    expect(() => pullStep({ ...a, start: 1 })).toThrow(/start must be a multiple of 4\. Value: 1/);
+    expect(() => pullStep({ ...a, end: 7 })).toThrow(/end .*Value: 7/);
+    expect(() => pullStep({ ...a, blockSums: new Float64Array(3) })).toThrow(/blockSums\.length/);
+    expect(() => pullStep({ ...a, scalars: { alpha: 1, p: 0, q: 0 } })).toThrow(/scalars\.alpha/);
+    expect(() => pullStep({ ...a, tel: new Float64Array(2) })).toThrow(/tel\.length/);
+    expect(() => pullStep({ ...a, inOffsets: new Uint32Array(3) })).toThrow(RangeError);
+  });
+});
+
+describe("checkGraph", () => {
+  const g = toGraph(applyPolicies(randomEdges(4, 50, 3), true));
+  it("accepts a well-formed graph and the empty graph", () => {
+    expect(() => checkGraph(g)).not.toThrow();
+    expect(() => checkGraph(fromDenseEdges(0, new Uint32Array(0), new Uint32Array(0)))).not.toThrow();
+  });
+  it("names the first bad entry", () => {
+    const sources = g.sources.slice();
+    sources[5] = 50;
+    expect(() => checkGraph({ ...g, sources })).toThrow(/graph\.sources\[5\] must be < n = 50\. Value: 50/);
+    const outWeight = g.outWeight.slice();
+    outWeight[2] = -1;
+    expect(() => checkGraph({ ...g, outWeight })).toThrow(/graph\.outWeight\[2\]/);
+    const weights = (g.weights as Float64Array).slice();
+    weights[0] = NaN;
+    expect(() => checkGraph({ ...g, weights })).toThrow(/graph\.weights\[0\]/);
+    expect(() => checkGraph({ ...g, m: g.m + 1 })).toThrow(/graph\.sources\.length/);
+  });
+});
+
+describe("teleport and scalars", () => {
+  it("normalizes seeds, adding duplicates", () => {
+    expect(Array.from(teleportVector(4, [{ node: 2, weight: 1 }, { node: 0, weight: 2 }, { node: 2, weight: 1 }]))).toEqual([0.5, 0, 0.5, 0]);
+    expect(() => teleportVector(4, [{ node: 1, weight: 0 }])).toThrow(/positive sum/);
+    expect(() => teleportVector(4, [{ node: 1, weight: -1 }])).toThrow(/seeds\[0\]\.weight/);
+    expect(() => teleportVector(4, [])).toThrow(RangeError);
+  });
+  it("counts out-edges for unweighted runs", () => {
+    expect(Array.from(outDegree(Uint32Array.of(0, 2, 0, 0), new Float64Array(3).fill(9)))).toEqual([3, 0, 1]);
+  });
+  it("folds the damping and dangling policy into p and q", () => {
+    expect(stepScalars(0.8, 0.5, 4, false, "teleport")).toEqual({ alpha: 0.8, p: 0, q: (1 - 0.8) * 0.25 + 0.8 * 0.5 * 0.25 });
+    expect(stepScalars(0.8, 0.5, 4, true, "teleport")).toEqual({ alpha: 0.8, p: 1 - 0.8 + 0.8 * 0.5, q: 0 });
+    expect(stepScalars(0.8, 0.5, 4, true, "uniform").q).toBe(0.8 * 0.5 * 0.25);
+  });
+});
+
+describe("planShards", () => {
+  const g = toGraph(applyPolicies(randomEdges(8, 50 * BLOCK_NODES + 17, 3), true));
+  it("covers 0..n with contiguous non-empty ranges on block boundaries for any count", () => {
+    for (let count = 1; count <= 60; count++) {
+      const plan = planShards(g.inOffsets, g.n, count, BLOCK_NODES);
+      expect(plan).toHaveLength(Math.min(count, 51));
+      expect(plan[0].start).toBe(0);
+      expect(plan[plan.length - 1].end).toBe(g.n);
+      plan.forEach((s, i) => {
+        expect(s.index).toBe(i);
+        expect(s.end).toBeGreaterThan(s.start);
+        expect(s.start % BLOCK_NODES).toBe(0);
+        if (i > 0) expect(s.start).toBe(plan[i - 1].end);
+        expect(s.edges).toBe(g.inOffsets[s.end] - g.inOffsets[s.start]);
+      });
+    }
+  });
+  it("balances in-edges plus nodes within one block of cost", () => {
+    // Skewed graph: low ids receive most edges, so equal node counts would be far from balanced.
+    const plan = planShards(g.inOffsets, g.n, 4, BLOCK_NODES);
+    const cost = plan.map((s) => s.edges + s.end - s.start);
+    const total = g.m + g.n;
+    let maxBlock = 0;
+    for (let b = 0; b < g.n; b += BLOCK_NODES) {
+      const end = Math.min(b + BLOCK_NODES, g.n);
+      maxBlock = Math.max(maxBlock, g.inOffsets[end] - g.inOffsets[b] + end - b);
+    }
+    for (const c of cost) expect(Math.abs(c - total / 4)).toBeLessThanOrEqual(maxBlock);
+    const nodes = plan.map((s) => s.end - s.start);
+    expect(Math.max(...nodes) / Math.min(...nodes)).toBeGreaterThan(2);
+  });
+  it("returns no shard for the empty graph and rejects a bad count", () => {
+    expect(planShards(Uint32Array.of(0), 0, 3, BLOCK_NODES)).toEqual([]);
+    expect(() => planShards(g.inOffsets, g.n, 0, BLOCK_NODES)).toThrow(/count .*Value: 0/);
+  });
+});
+
+describe("run state", () => {
+  it("uses arrays already in shared memory without copying, and copies others", () => {
+    const g = toGraph(applyPolicies(randomEdges(10, 100, 3), true));
+    const sources = new Uint32Array(new SharedArrayBuffer(g.sources.byteLength));
+    sources.set(g.sources);
+    const s = prepareRunState({ ...g, sources }, { weighted: true, seeds: null, start: null });
+    expect(s.views.sources).toBe(sources);
+    expect(s.views.inOffsets).not.toBe(g.inOffsets);
+    expect(s.views.inOffsets.buffer).toBeInstanceOf(SharedArrayBuffer);
+    expect(Array.from(s.views.inOffsets)).toEqual(Array.from(g.inOffsets));
+    expect(s.mass).toBeCloseTo(1, 14);
+  });
+});
