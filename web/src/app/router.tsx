@@ -1,7 +1,7 @@
 import { useQueryClient, type QueryClient } from "@tanstack/react-query";
 import { useMemo, type ComponentType } from "react";
 import { createBrowserRouter, RouterProvider, type LoaderFunction } from "react-router-dom";
-import { RouteError } from "../components/errors/route-error";
+import { NotFound, RouteError } from "../components/errors/route-error";
 import { Loading } from "../components/ui/loading";
 import { paths } from "../config/paths";
 
@@ -60,13 +60,7 @@ function createAppRouter(queryClient: QueryClient) {
         { path: paths.app.outbox.path, lazy: () => import("./routes/app/outbox").then(load) },
       ],
     },
-    {
-      path: "*",
-      errorElement: <RouteError />,
-      loader: () => {
-        throw new Response("Not found", { status: 404, statusText: "Not found" });
-      },
-    },
+    { path: "*", Component: NotFound },
   ]);
 }
 

@@ -16,3 +16,14 @@ export function validate<S extends z.ZodType>(
   }
   return { ok: false, errors };
 }
+
+/** Moves focus to the first field with an error, so keyboard and screen-reader users land on it. */
+export function focusFirstError(form: HTMLFormElement, errors: FieldErrors): void {
+  for (const element of Array.from(form.elements)) {
+    const name = element.getAttribute("name");
+    if (name && errors[name] && element instanceof HTMLElement) {
+      element.focus();
+      return;
+    }
+  }
+}

@@ -1,19 +1,18 @@
-const dateTime = new Intl.DateTimeFormat("en-GB", {
-  year: "numeric",
-  month: "short",
-  day: "2-digit",
-  hour: "2-digit",
-  minute: "2-digit",
-});
-
-export function formatDateTime(value: string | number | Date | null | undefined): string {
-  if (value === null || value === undefined) return "—";
+function toDate(value: string | number | Date | null | undefined): Date | null {
+  if (value === null || value === undefined) return null;
   const date = value instanceof Date ? value : new Date(value);
-  return Number.isNaN(date.getTime()) ? "—" : dateTime.format(date);
+  return Number.isNaN(date.getTime()) ? null : date;
+}
+
+const pad = (n: number) => String(n).padStart(2, "0");
+
+/** Local time as "2026-12-02 14:03": sortable, fixed width, unambiguous across locales. */
+export function formatDateTime(value: string | number | Date | null | undefined): string {
+  const d = toDate(value);
+  if (!d) return "—";
+  return `${d.getFullYear()}-${pad(d.getMonth() + 1)}-${pad(d.getDate())} ${pad(d.getHours())}:${pad(d.getMinutes())}`;
 }
 
 export function isoOrEmpty(value: string | number | Date | null | undefined): string | undefined {
-  if (value === null || value === undefined) return undefined;
-  const date = value instanceof Date ? value : new Date(value);
-  return Number.isNaN(date.getTime()) ? undefined : date.toISOString();
+  return toDate(value)?.toISOString();
 }

@@ -6,7 +6,14 @@ import { Wordmark } from "../ui/wordmark";
 
 export function RouteError() {
   const error = useRouteError();
-  const notFound = isRouteErrorResponse(error) && error.status === 404;
+  return <ErrorPage error={error} notFound={isRouteErrorResponse(error) && error.status === 404} />;
+}
+
+export function NotFound() {
+  return <ErrorPage error={null} notFound />;
+}
+
+function ErrorPage({ error, notFound }: { error: unknown; notFound: boolean }) {
   return (
     <div className="flex min-h-screen items-center justify-center px-4">
       <div role="alert" className="w-full max-w-md rounded-lg border border-rule bg-paper-raised px-6 py-6">

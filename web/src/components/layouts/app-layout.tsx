@@ -24,7 +24,8 @@ export function AppLayout({ nav, user, onSignOut, signingOut, children }: AppLay
       >
         Skip to content
       </a>
-      <aside className="sticky top-0 flex h-screen w-56 shrink-0 flex-col bg-ink text-paper">
+      <aside className="w-56 shrink-0 bg-ink text-paper">
+        <div className="sticky top-0 flex h-screen flex-col">
         <div className="flex h-14 items-center border-b border-ink-line px-4">
           <Wordmark inverse />
         </div>
@@ -80,6 +81,7 @@ export function AppLayout({ nav, user, onSignOut, signingOut, children }: AppLay
           >
             Sign out
           </Button>
+        </div>
         </div>
       </aside>
       <main id="main" tabIndex={-1} className="min-w-0 flex-1 px-8 py-6 focus:outline-none">

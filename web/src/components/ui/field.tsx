@@ -2,7 +2,7 @@ import clsx from "clsx";
 import { useId, type InputHTMLAttributes, type ReactNode, type SelectHTMLAttributes } from "react";
 
 const CONTROL =
-  "block w-full rounded-md border bg-paper-raised px-2.5 text-sm text-ink placeholder:text-ink-muted " +
+  "block rounded-md border bg-paper-raised px-2.5 text-sm text-ink placeholder:text-ink-muted " +
   "border-rule-strong hover:border-ink-muted aria-[invalid=true]:border-danger disabled:bg-paper-sunken disabled:text-ink-muted";
 
 type FieldProps = {
@@ -53,7 +53,7 @@ export function TextField({ label, hint, error, fieldClassName, className, ...re
           id={id}
           aria-describedby={describedBy}
           aria-invalid={invalid || undefined}
-          className={clsx(CONTROL, "h-9", className)}
+          className={clsx(CONTROL, "h-9 w-full", className)}
           {...rest}
         />
       )}
@@ -87,7 +87,7 @@ type SelectProps = Omit<SelectHTMLAttributes<HTMLSelectElement>, "size"> & {
 /** A bare select for tables; it still needs an accessible name (aria-label) from the caller. */
 export function Select({ options, className, compact = false, ...rest }: SelectProps) {
   return (
-    <select className={clsx(CONTROL, compact ? "h-7 w-auto pr-7 text-[0.8125rem]" : "h-9 pr-8", className)} {...rest}>
+    <select className={clsx(CONTROL, compact ? "h-7 pr-7 text-[0.8125rem]" : "h-9 w-full pr-8", className)} {...rest}>
       {options.map((option) => (
         <option key={option.value} value={option.value}>
           {option.label}

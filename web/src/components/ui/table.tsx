@@ -43,7 +43,7 @@ export function TH({ numeric, className, ...rest }: ThHTMLAttributes<HTMLTableCe
 export function TD({ numeric, className, ...rest }: TdHTMLAttributes<HTMLTableCellElement> & CellExtras) {
   return (
     <td
-      className={clsx("px-3 py-2 text-ink first:pl-4 last:pr-4", numeric && "num text-right", className)}
+      className={clsx("px-3 py-1.5 text-ink first:pl-4 last:pr-4", numeric && "num text-right", className)}
       {...rest}
     />
   );

@@ -1,5 +1,5 @@
 import type { QueryClient } from "@tanstack/react-query";
-import { Outlet, redirect, useNavigate, type LoaderFunctionArgs } from "react-router-dom";
+import { Outlet, redirect, type LoaderFunctionArgs } from "react-router-dom";
 import { AppLayout, type NavGroup } from "../../../components/layouts/app-layout";
 import { paths } from "../../../config/paths";
 import { ROLE_LABELS, sessionQueryOptions, useSession } from "../../../lib/auth";
@@ -18,7 +18,6 @@ export const makeLoader = (queryClient: QueryClient) => async ({ request }: Load
 
 export function Component() {
   const session = useSession();
-  const navigate = useNavigate();
   const signOut = useSignOut();
   const outboxAvailable = useOutboxAvailable(can(session.role, "outbox:view"));
 
@@ -36,7 +35,7 @@ export function Component() {
     {
       label: "Team",
       items: [
-        { label: "Members", href: paths.app.team.getHref() },
+        { label: "Team", href: paths.app.team.getHref() },
         { label: "API tokens", href: paths.app.tokens.getHref() },
         ...(can(session.role, "activity:view") ? [{ label: "Activity", href: paths.app.activity.getHref() }] : []),
         ...(outboxAvailable ? [{ label: "Outbox", href: paths.app.outbox.getHref(), note: "dev" }] : []),
@@ -54,9 +53,7 @@ export function Component() {
         teamName: session.team.name,
       }}
       signingOut={signOut.isPending}
-      onSignOut={() =>
-        signOut.mutate(undefined, { onSettled: () => void navigate(paths.auth.signIn.getHref(), { replace: true }) })
-      }
+      onSignOut={() => signOut.mutate()}
     >
       <Outlet />
     </AppLayout>

@@ -25,7 +25,7 @@ export function Component() {
     <>
       <PageHeader
         eyebrow={session.team.name}
-        title="Members"
+        title="Team"
         description={
           canManage
             ? "Who can see this team's graphs and runs, and what each person may change."

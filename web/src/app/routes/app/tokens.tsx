@@ -21,7 +21,12 @@ export function Component() {
     <>
       <PageHeader
         title="API tokens"
-        description="Scripts send a token as “Authorization: Bearer …” to fetch graphs, runs and score files without a browser session."
+        description={
+          <>
+            Scripts send a token as <code className="num text-ink">Authorization: Bearer &lt;token&gt;</code> to fetch
+            graphs, runs and score files without a browser session.
+          </>
+        }
       />
       {canCreate ? (
         <Card title="New token">

@@ -1,18 +1,18 @@
-import { useMutation, useQueryClient } from "@tanstack/react-query";
-import { api } from "../../../lib/api-client";
-import { rememberSession } from "../../../lib/auth";
+import { useMutation } from "@tanstack/react-query";
+import { paths } from "../../../config/paths";
+import { api, setCsrfToken } from "../../../lib/api-client";
 
 export function signOut() {
   return api.post("/auth/sign-out", undefined, null, { on401: "throw" });
 }
 
 export function useSignOut() {
-  const queryClient = useQueryClient();
   return useMutation({
     mutationFn: signOut,
     onSettled: () => {
-      queryClient.clear();
-      rememberSession(queryClient, null);
+      setCsrfToken(null);
+      // A full page load drops every cached query and component state of the signed-out user at once.
+      window.location.assign(paths.auth.signIn.getHref());
     },
   });
 }

@@ -4,7 +4,7 @@ import { ErrorBanner } from "../../../components/ui/error-banner";
 import { TextField } from "../../../components/ui/field";
 import { Loading } from "../../../components/ui/loading";
 import { ROLE_LABELS, type Session } from "../../../lib/auth";
-import { validate, type FieldErrors } from "../../../lib/form";
+import { focusFirstError, validate, type FieldErrors } from "../../../lib/form";
 import { AcceptInviteInputSchema, useAcceptInvite } from "../api/accept-invite";
 import { useInvite } from "../api/get-invite";
 
@@ -30,6 +30,7 @@ export function AcceptInviteForm({ token, onAccepted }: AcceptInviteFormProps) {
     const parsed = validate(AcceptInviteInputSchema, { name: form.get("name"), password: form.get("password") });
     if (!parsed.ok) {
       setErrors(parsed.errors);
+      focusFirstError(event.currentTarget, parsed.errors);
       return;
     }
     setErrors({});

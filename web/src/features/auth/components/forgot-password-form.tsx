@@ -2,7 +2,7 @@ import { useState, type FormEvent } from "react";
 import { Button } from "../../../components/ui/button";
 import { ErrorBanner, Notice } from "../../../components/ui/error-banner";
 import { TextField } from "../../../components/ui/field";
-import { validate, type FieldErrors } from "../../../lib/form";
+import { focusFirstError, validate, type FieldErrors } from "../../../lib/form";
 import { PasswordResetRequestSchema, useRequestPasswordReset } from "../api/request-password-reset";
 
 export function ForgotPasswordForm() {
@@ -14,6 +14,7 @@ export function ForgotPasswordForm() {
     const parsed = validate(PasswordResetRequestSchema, { email: new FormData(event.currentTarget).get("email") });
     if (!parsed.ok) {
       setErrors(parsed.errors);
+      focusFirstError(event.currentTarget, parsed.errors);
       return;
     }
     setErrors({});

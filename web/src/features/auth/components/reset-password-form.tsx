@@ -3,7 +3,7 @@ import { z } from "zod";
 import { Button } from "../../../components/ui/button";
 import { ErrorBanner } from "../../../components/ui/error-banner";
 import { TextField } from "../../../components/ui/field";
-import { validate, type FieldErrors } from "../../../lib/form";
+import { focusFirstError, validate, type FieldErrors } from "../../../lib/form";
 import { NewPasswordSchema, useResetPassword } from "../api/reset-password";
 
 const ResetFormSchema = z
@@ -20,6 +20,7 @@ export function ResetPasswordForm({ token, onSuccess }: { token: string; onSucce
     const parsed = validate(ResetFormSchema, { password: form.get("password"), confirm: form.get("confirm") });
     if (!parsed.ok) {
       setErrors(parsed.errors);
+      focusFirstError(event.currentTarget, parsed.errors);
       return;
     }
     setErrors({});

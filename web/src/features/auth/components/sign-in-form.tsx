@@ -5,7 +5,7 @@ import { ErrorBanner } from "../../../components/ui/error-banner";
 import { TextField } from "../../../components/ui/field";
 import { paths } from "../../../config/paths";
 import type { Session } from "../../../lib/auth";
-import { validate, type FieldErrors } from "../../../lib/form";
+import { focusFirstError, validate, type FieldErrors } from "../../../lib/form";
 import { SignInInputSchema, useSignIn } from "../api/sign-in";
 
 export function SignInForm({ defaultEmail = "", onSuccess }: { defaultEmail?: string; onSuccess: (session: Session) => void }) {
@@ -18,6 +18,7 @@ export function SignInForm({ defaultEmail = "", onSuccess }: { defaultEmail?: st
     const parsed = validate(SignInInputSchema, { email: form.get("email"), password: form.get("password") });
     if (!parsed.ok) {
       setErrors(parsed.errors);
+      focusFirstError(event.currentTarget, parsed.errors);
       return;
     }
     setErrors({});

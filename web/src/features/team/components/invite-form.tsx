@@ -3,7 +3,7 @@ import { Button } from "../../../components/ui/button";
 import { ErrorBanner, Notice } from "../../../components/ui/error-banner";
 import { SelectField, TextField } from "../../../components/ui/field";
 import { ROLE_OPTIONS } from "../../../lib/auth";
-import { validate, type FieldErrors } from "../../../lib/form";
+import { focusFirstError, validate, type FieldErrors } from "../../../lib/form";
 import { CreateInviteInputSchema, useCreateInvite } from "../api/create-invite";
 
 export function InviteForm() {
@@ -18,6 +18,7 @@ export function InviteForm() {
     const parsed = validate(CreateInviteInputSchema, { email: form.get("email"), role: form.get("role") });
     if (!parsed.ok) {
       setErrors(parsed.errors);
+      focusFirstError(event.currentTarget, parsed.errors);
       return;
     }
     setErrors({});
@@ -34,19 +35,25 @@ export function InviteForm() {
     <form noValidate onSubmit={handleSubmit} aria-label="Invite a member" className="flex flex-col gap-3">
       {create.isError ? <ErrorBanner error={create.error} title="The invitation was not sent" /> : null}
       {sentTo ? <Notice>Invitation sent to {sentTo}.</Notice> : null}
-      <div className="flex flex-wrap items-start gap-3">
-        <TextField
-          label="E-mail"
-          name="email"
-          type="email"
-          autoComplete="off"
-          placeholder="name@kestrel.example"
-          error={errors.email}
-          fieldClassName="min-w-56 flex-1"
-          required
+      <TextField
+        label="E-mail"
+        name="email"
+        type="email"
+        autoComplete="off"
+        placeholder="name@kestrel.example"
+        error={errors.email}
+        required
+      />
+      <div className="flex items-end gap-3">
+        <SelectField
+          label="Role"
+          name="role"
+          options={ROLE_OPTIONS}
+          defaultValue="viewer"
+          fieldClassName="flex-1"
+          error={errors.role}
         />
-        <SelectField label="Role" name="role" options={ROLE_OPTIONS} defaultValue="viewer" fieldClassName="w-36" error={errors.role} />
-        <Button type="submit" variant="primary" busy={create.isPending} className="mt-[1.375rem]">
+        <Button type="submit" variant="primary" busy={create.isPending}>
           Send invitation
         </Button>
       </div>

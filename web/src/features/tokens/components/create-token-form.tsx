@@ -2,7 +2,7 @@ import { useState, type FormEvent } from "react";
 import { Button } from "../../../components/ui/button";
 import { ErrorBanner } from "../../../components/ui/error-banner";
 import { TextField } from "../../../components/ui/field";
-import { validate, type FieldErrors } from "../../../lib/form";
+import { focusFirstError, validate, type FieldErrors } from "../../../lib/form";
 import { CreateTokenInputSchema, useCreateToken, type CreatedToken } from "../api/create-token";
 
 export function CreateTokenForm() {
@@ -16,6 +16,7 @@ export function CreateTokenForm() {
     const parsed = validate(CreateTokenInputSchema, { name: new FormData(formElement).get("name") });
     if (!parsed.ok) {
       setErrors(parsed.errors);
+      focusFirstError(event.currentTarget, parsed.errors);
       return;
     }
     setErrors({});

@@ -1,0 +1,37 @@
+import { execFileSync } from "node:child_process";
+import { existsSync } from "node:fs";
+import path from "node:path";
+import type {} from "vitest";
+import type { TestProject } from "vitest/node";
+import { build } from "vite";
+
+export const CHROMIUM_PATH = "/usr/bin/chromium";
+const ROOT = path.resolve(import.meta.dirname, "../..");
+const WEB_DIST = path.join(ROOT, "dist/web");
+
+declare module "vitest" {
+  export interface ProvidedContext {
+    webDistDir: string;
+    chromiumPath: string;
+  }
+}
+
+function ensureChromium(): void {
+  if (existsSync(CHROMIUM_PATH)) return;
+  if (process.getuid?.() !== 0) {
+    throw new Error(`Browser tests need Debian's chromium at ${CHROMIUM_PATH}: run "apt-get install -y chromium" as root.`);
+  }
+  const env = { ...process.env, DEBIAN_FRONTEND: "noninteractive" };
+  execFileSync("apt-get", ["update"], { stdio: "inherit", env });
+  execFileSync("apt-get", ["install", "-y", "chromium"], { stdio: "inherit", env });
+  if (!existsSync(CHROMIUM_PATH)) throw new Error(`apt-get finished but ${CHROMIUM_PATH} is still missing.`);
+}
+
+export default async function setup(project: TestProject): Promise<void> {
+  ensureChromium();
+  // Build once per test run so the browser exercises the same bundle that production serves.
+  await build({ configFile: path.join(ROOT, "vite.config.ts"), mode: "production", logLevel: "warn" });
+  if (!existsSync(path.join(WEB_DIST, "index.html"))) throw new Error(`vite build did not produce ${WEB_DIST}/index.html`);
+  project.provide("webDistDir", WEB_DIST);
+  project.provide("chromiumPath", CHROMIUM_PATH);
+}
