@@ -58,3 +58,7 @@ export function parseDbUrl(url: string): DbSettings {
     database: parsed.pathname.replace(/^\//, ""),
   };
 }
+
+/** A transaction handle; repos accept either it or the pool-backed database. */
+export type Tx = Parameters<Parameters<Db["transaction"]>[0]>[0];
+export type Executor = Db | Tx;

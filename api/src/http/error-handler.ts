@@ -1,0 +1,38 @@
+import type { ErrorRequestHandler } from "express";
+import { ZodError } from "zod";
+import type { ErrorBody } from "../../contracts/common";
+import type { Logger } from "../lib/logger";
+import { AppError, ERRORS } from "../lib/errors";
+
+function bodyParserError(error: unknown): AppError | null {
+  if (typeof error !== "object" || error === null || !("type" in error)) return null;
+  const type = (error as { type: unknown }).type;
+  if (type === "entity.parse.failed") return new AppError(ERRORS.invalidJson);
+  if (type === "entity.too.large") return new AppError(ERRORS.payloadTooLarge);
+  if (typeof type === "string" && type.startsWith("encoding.") || type === "charset.unsupported") {
+    return new AppError(ERRORS.validationFailed, { message: "The request body encoding is not supported." });
+  }
+  return null;
+}
+
+/** The single error middleware: every failure leaves as `{ error: { code, message, details } }`. */
+export function errorHandler(logger: Logger): ErrorRequestHandler {
+  return (error: unknown, req, res, next) => {
+    if (res.headersSent) return next(error);
+    let appError: AppError;
+    if (error instanceof AppError) {
+      appError = error;
+    } else if (error instanceof ZodError) {
+      appError = new AppError(ERRORS.validationFailed, {
+        details: { issues: error.issues.map(({ code, path, message }) => ({ code, path, message })) },
+      });
+    } else {
+      appError = bodyParserError(error) ?? new AppError(ERRORS.internal, { cause: error });
+    }
+    if (appError.status >= 500) {
+      logger.error({ err: appError.cause ?? error, method: req.method, url: req.originalUrl }, "request failed");
+    }
+    const body: ErrorBody = { error: { code: appError.code, message: appError.message, details: appError.details } };
+    res.status(appError.status).json(body);
+  };
+}
