@@ -30,8 +30,8 @@ export const paths = {
     activity: { path: "/activity", getHref: () => "/activity" } satisfies Path,
     outbox: {
       path: "/outbox",
-      getHref: (messageId?: string) =>
-        messageId ? `/outbox?message=${encodeURIComponent(messageId)}` : "/outbox",
-    } satisfies Path<[string?]>,
+      getHref: (messageId?: number) =>
+        messageId ? `/outbox?message=${messageId}` : "/outbox",
+    } satisfies Path<[number?]>,
   },
 } as const;

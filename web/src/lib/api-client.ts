@@ -1,13 +1,6 @@
 import { z } from "zod";
+import { ErrorBodySchema } from "../../../api/contracts/common";
 import { paths } from "../config/paths";
-
-const ErrorBodySchema = z.object({
-  error: z.object({
-    code: z.string(),
-    message: z.string(),
-    details: z.unknown().optional(),
-  }),
-});
 
 export class ApiError extends Error {
   readonly status: number;

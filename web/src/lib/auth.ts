@@ -1,19 +1,9 @@
 import { queryOptions, useQuery, type QueryClient } from "@tanstack/react-query";
-import { z } from "zod";
+import { SessionSchema, type Session } from "../../../api/contracts/auth";
+import { RoleSchema, type Role } from "../../../api/contracts/common";
 import { ApiError, api, setCsrfToken } from "./api-client";
 
-// Provisional until the shared auth contract lands; mirrors the documented session shape.
-const IdSchema = z.union([z.string(), z.number()]).transform(String);
-export const RoleSchema = z.enum(["admin", "engineer", "viewer"]);
-export type Role = z.infer<typeof RoleSchema>;
-
-export const SessionSchema = z.object({
-  user: z.object({ id: IdSchema, email: z.string(), name: z.string().nullish() }),
-  team: z.object({ id: IdSchema, name: z.string() }),
-  role: RoleSchema,
-  csrfToken: z.string(),
-});
-export type Session = z.infer<typeof SessionSchema>;
+export type { Role, Session };
 
 export const sessionQueryKey = ["auth", "me"] as const;
 
@@ -55,3 +45,7 @@ export const ROLE_LABELS: Record<Role, string> = {
 export const ROLE_OPTIONS = RoleSchema.options.map((role) => ({ value: role, label: ROLE_LABELS[role] }));
 
 export const ROLE_TONES = { admin: "accent", engineer: "ink", viewer: "neutral" } as const satisfies Record<Role, string>;
+
+export function parseRole(value: string): Role {
+  return RoleSchema.parse(value);
+}

@@ -1,21 +1,22 @@
 import type { QueryClient } from "@tanstack/react-query";
 import { Region } from "../../../components/errors/region";
 import { Card } from "../../../components/ui/card";
+import { EmptyState } from "../../../components/ui/empty-state";
 import { PageHeader } from "../../../components/ui/page-header";
-import { useSession } from "../../../lib/auth";
+import { sessionQueryOptions, useSession } from "../../../lib/auth";
 import { can } from "../../../lib/authorization";
 import { getTokensQueryOptions } from "../../../features/tokens/api/get-tokens";
 import { CreateTokenForm } from "../../../features/tokens/components/create-token-form";
 import { TokensTable } from "../../../features/tokens/components/tokens-table";
 
 export const makeLoader = (queryClient: QueryClient) => async () => {
-  void queryClient.prefetchQuery(getTokensQueryOptions());
+  const session = queryClient.getQueryData(sessionQueryOptions().queryKey);
+  if (session && can(session.role, "tokens:create")) void queryClient.prefetchQuery(getTokensQueryOptions());
   return null;
 };
 
 export function Component() {
   const session = useSession();
-  const canCreate = can(session.role, "tokens:create");
 
   return (
     <>
@@ -24,24 +25,26 @@ export function Component() {
         description={
           <>
             Scripts send a token as <code className="num text-ink">Authorization: Bearer &lt;token&gt;</code> to fetch
-            graphs, runs and score files without a browser session.
+            graphs, runs and score files without a browser session. A token acts with your role.
           </>
         }
       />
-      {canCreate ? (
-        <Card title="New token">
-          <CreateTokenForm />
-        </Card>
-      ) : null}
-      <Card
-        title="Tokens"
-        description={canCreate ? undefined : "Viewers cannot create tokens; ask an engineer or admin if a script needs one."}
-        bodyClassName="px-4 pt-1 pb-2"
-      >
-        <Region loadingLabel="Loading tokens…" errorTitle="Tokens could not be loaded">
-          <TokensTable canRevoke={canCreate} />
-        </Region>
-      </Card>
+      {can(session.role, "tokens:create") ? (
+        <>
+          <Card title="New token">
+            <CreateTokenForm />
+          </Card>
+          <Card title="Your tokens" bodyClassName="px-4 pt-1 pb-2">
+            <Region loadingLabel="Loading tokens…" errorTitle="Tokens could not be loaded">
+              <TokensTable />
+            </Region>
+          </Card>
+        </>
+      ) : (
+        <EmptyState title="Engineers and admins create tokens">
+          Viewers browse and download in the portal. If a script needs a token, ask an engineer or admin of your team.
+        </EmptyState>
+      )}
     </>
   );
 }

@@ -1,24 +1,8 @@
 import { infiniteQueryOptions, useSuspenseInfiniteQuery } from "@tanstack/react-query";
-import { z } from "zod";
+import { ActivityPageSchema } from "../../../../../api/contracts/activity";
 import { api } from "../../../lib/api-client";
 
-// Provisional until the shared activity contract lands.
-const IdSchema = z.union([z.string(), z.number()]).transform(String);
-export const ActivityEntrySchema = z.object({
-  id: IdSchema,
-  createdAt: z.string(),
-  actor: z.object({ email: z.string(), name: z.string().nullish() }).nullish(),
-  action: z.string(),
-  target: z.string().nullish(),
-  details: z.unknown().optional(),
-});
-export type ActivityEntry = z.infer<typeof ActivityEntrySchema>;
-
-export const ActivityPageSchema = z.object({
-  items: z.array(ActivityEntrySchema),
-  nextCursor: z.string().nullish(),
-});
-export type ActivityPage = z.infer<typeof ActivityPageSchema>;
+export type { ActivityItem } from "../../../../../api/contracts/activity";
 
 export const ACTIVITY_PAGE_SIZE = 50;
 
@@ -31,7 +15,7 @@ export const getActivityQueryOptions = () =>
     queryKey: ["activity", "list"],
     queryFn: ({ pageParam }) => getActivity({ cursor: pageParam }),
     initialPageParam: null as string | null,
-    getNextPageParam: (page) => page.nextCursor ?? null,
+    getNextPageParam: (page) => page.nextCursor,
   });
 
 export function useActivity() {

@@ -32,6 +32,7 @@ export function ActivityTable() {
               </TD>
               <TD className="max-w-56 truncate" title={entry.actor?.email}>
                 {entry.actor ? entry.actor.name || entry.actor.email : <span className="text-ink-muted">System</span>}
+                {entry.viaToken ? <span className="ml-1.5 text-xs text-ink-muted">via token</span> : null}
               </TD>
               <TD>
                 <code className="num rounded-sm bg-paper-sunken px-1.5 py-0.5 text-[0.8125rem] text-ink">{entry.action}</code>

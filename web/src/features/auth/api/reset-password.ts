@@ -1,13 +1,10 @@
 import { useMutation } from "@tanstack/react-query";
-import { z } from "zod";
+import { PasswordSchema, type PasswordResetConfirm } from "../../../../../api/contracts/auth";
 import { api } from "../../../lib/api-client";
 
-export const NewPasswordSchema = z
-  .string()
-  .min(10, "Use at least 10 characters.")
-  .max(200, "Use at most 200 characters.");
+export { PasswordSchema };
 
-export function resetPassword({ token, password }: { token: string; password: string }) {
+export function resetPassword({ token, password }: PasswordResetConfirm & { token: string }) {
   return api.post(`/auth/password-reset/${encodeURIComponent(token)}`, { password }, null, { on401: "throw" });
 }
 

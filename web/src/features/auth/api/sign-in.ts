@@ -1,15 +1,11 @@
 import { useMutation, useQueryClient } from "@tanstack/react-query";
-import { z } from "zod";
+import { SessionSchema, SignInRequestSchema, type SignInRequest } from "../../../../../api/contracts/auth";
 import { api } from "../../../lib/api-client";
-import { SessionSchema, rememberSession } from "../../../lib/auth";
+import { rememberSession } from "../../../lib/auth";
 
-export const SignInInputSchema = z.object({
-  email: z.email("Enter an e-mail address like name@example.org."),
-  password: z.string().min(1, "Enter your password."),
-});
-export type SignInInput = z.infer<typeof SignInInputSchema>;
+export { SignInRequestSchema };
 
-export function signIn(input: SignInInput) {
+export function signIn(input: SignInRequest) {
   return api.post("/auth/sign-in", input, SessionSchema, { on401: "throw" });
 }
 

@@ -5,15 +5,10 @@ import { TextField } from "../../../components/ui/field";
 import { Loading } from "../../../components/ui/loading";
 import { ROLE_LABELS, type Session } from "../../../lib/auth";
 import { focusFirstError, validate, type FieldErrors } from "../../../lib/form";
-import { AcceptInviteInputSchema, useAcceptInvite } from "../api/accept-invite";
+import { AcceptInviteSchema, useAcceptInvite } from "../api/accept-invite";
 import { useInvite } from "../api/get-invite";
 
-type AcceptInviteFormProps = {
-  token: string;
-  onAccepted: (result: { session: Session | null; email: string }) => void;
-};
-
-export function AcceptInviteForm({ token, onAccepted }: AcceptInviteFormProps) {
+export function AcceptInviteForm({ token, onAccepted }: { token: string; onAccepted: (session: Session) => void }) {
   const invite = useInvite(token);
   const accept = useAcceptInvite();
   const [errors, setErrors] = useState<FieldErrors>({});
@@ -21,20 +16,21 @@ export function AcceptInviteForm({ token, onAccepted }: AcceptInviteFormProps) {
   if (invite.isPending) return <Loading label="Checking the invitation…" />;
   if (invite.isError) return <ErrorBanner error={invite.error} title="This invitation cannot be used" />;
 
-  const { email, role } = invite.data;
-  const teamName = invite.data.team?.name ?? invite.data.teamName;
+  const { email, role, team, existingAccount } = invite.data;
 
   function handleSubmit(event: FormEvent<HTMLFormElement>) {
     event.preventDefault();
     const form = new FormData(event.currentTarget);
-    const parsed = validate(AcceptInviteInputSchema, { name: form.get("name"), password: form.get("password") });
+    // An existing account keeps its name; the server ignores the field then.
+    const name = existingAccount ? email : form.get("name");
+    const parsed = validate(AcceptInviteSchema, { name, password: form.get("password") });
     if (!parsed.ok) {
       setErrors(parsed.errors);
       focusFirstError(event.currentTarget, parsed.errors);
       return;
     }
     setErrors({});
-    accept.mutate({ token, ...parsed.data }, { onSuccess: (session) => onAccepted({ session, email }) });
+    accept.mutate({ token, ...parsed.data }, { onSuccess: onAccepted });
   }
 
   return (
@@ -42,28 +38,27 @@ export function AcceptInviteForm({ token, onAccepted }: AcceptInviteFormProps) {
       <dl className="grid grid-cols-[auto_1fr] gap-x-4 gap-y-1 rounded-md bg-paper-sunken px-3 py-2.5 text-[0.8125rem]">
         <dt className="text-ink-muted">E-mail</dt>
         <dd className="truncate font-medium text-ink">{email}</dd>
-        {teamName ? (
-          <>
-            <dt className="text-ink-muted">Team</dt>
-            <dd className="font-medium text-ink">{teamName}</dd>
-          </>
-        ) : null}
+        <dt className="text-ink-muted">Team</dt>
+        <dd className="font-medium text-ink">{team.name}</dd>
         <dt className="text-ink-muted">Role</dt>
         <dd className="font-medium text-ink">{ROLE_LABELS[role]}</dd>
       </dl>
       {accept.isError ? <ErrorBanner error={accept.error} /> : null}
-      <TextField label="Your name" name="name" autoComplete="name" error={errors.name} required autoFocus />
+      {existingAccount ? null : (
+        <TextField label="Your name" name="name" autoComplete="name" error={errors.name} required autoFocus />
+      )}
       <TextField
-        label="Choose a password"
+        label={existingAccount ? "Your current password" : "Choose a password"}
         name="password"
         type="password"
-        autoComplete="new-password"
-        hint="At least 10 characters."
+        autoComplete={existingAccount ? "current-password" : "new-password"}
+        hint={existingAccount ? "You already have an account; confirm it is you." : "At least 10 characters."}
         error={errors.password}
         required
+        autoFocus={existingAccount}
       />
       <Button type="submit" variant="primary" busy={accept.isPending} className="self-end">
-        Join the team
+        Join {team.name}
       </Button>
     </form>
   );

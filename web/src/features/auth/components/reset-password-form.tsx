@@ -4,10 +4,10 @@ import { Button } from "../../../components/ui/button";
 import { ErrorBanner } from "../../../components/ui/error-banner";
 import { TextField } from "../../../components/ui/field";
 import { focusFirstError, validate, type FieldErrors } from "../../../lib/form";
-import { NewPasswordSchema, useResetPassword } from "../api/reset-password";
+import { PasswordSchema, useResetPassword } from "../api/reset-password";
 
 const ResetFormSchema = z
-  .object({ password: NewPasswordSchema, confirm: z.string() })
+  .object({ password: PasswordSchema, confirm: z.string() })
   .refine((v) => v.password === v.confirm, { path: ["confirm"], message: "The two passwords differ." });
 
 export function ResetPasswordForm({ token, onSuccess }: { token: string; onSuccess: () => void }) {

@@ -6,7 +6,7 @@ import { TextField } from "../../../components/ui/field";
 import { paths } from "../../../config/paths";
 import type { Session } from "../../../lib/auth";
 import { focusFirstError, validate, type FieldErrors } from "../../../lib/form";
-import { SignInInputSchema, useSignIn } from "../api/sign-in";
+import { SignInRequestSchema, useSignIn } from "../api/sign-in";
 
 export function SignInForm({ defaultEmail = "", onSuccess }: { defaultEmail?: string; onSuccess: (session: Session) => void }) {
   const signIn = useSignIn();
@@ -15,7 +15,7 @@ export function SignInForm({ defaultEmail = "", onSuccess }: { defaultEmail?: st
   function handleSubmit(event: FormEvent<HTMLFormElement>) {
     event.preventDefault();
     const form = new FormData(event.currentTarget);
-    const parsed = validate(SignInInputSchema, { email: form.get("email"), password: form.get("password") });
+    const parsed = validate(SignInRequestSchema, { email: form.get("email"), password: form.get("password") });
     if (!parsed.ok) {
       setErrors(parsed.errors);
       focusFirstError(event.currentTarget, parsed.errors);

@@ -1,26 +1,17 @@
 import { queryOptions, useQuery, useSuspenseQuery } from "@tanstack/react-query";
-import { z } from "zod";
+import { OutboxPageSchema } from "../../../../../api/contracts/outbox";
 import { ApiError, api } from "../../../lib/api-client";
 
-// Provisional until the shared outbox contract lands.
-const IdSchema = z.union([z.string(), z.number()]).transform(String);
-export const OutboxMessageSchema = z.object({
-  id: IdSchema,
-  to: z.string(),
-  subject: z.string(),
-  createdAt: z.string(),
-  text: z.string(),
-});
-export type OutboxMessage = z.infer<typeof OutboxMessageSchema>;
+export type { OutboxMessage } from "../../../../../api/contracts/outbox";
 
-export const OutboxSchema = z.object({ messages: z.array(OutboxMessageSchema) });
+export const OUTBOX_PAGE_SIZE = 100;
 
-export function getOutbox() {
-  return api.get("/outbox", OutboxSchema);
+export function getOutbox({ limit = OUTBOX_PAGE_SIZE }: { limit?: number } = {}) {
+  return api.get("/outbox", OutboxPageSchema, { query: { limit } });
 }
 
 export const getOutboxQueryOptions = () =>
-  queryOptions({ queryKey: ["outbox", "list"], queryFn: getOutbox, staleTime: 0 });
+  queryOptions({ queryKey: ["outbox", "list"], queryFn: () => getOutbox(), staleTime: 0 });
 
 export function useOutbox() {
   return useSuspenseQuery(getOutboxQueryOptions());
@@ -34,7 +25,7 @@ export function useOutboxAvailable(enabled: boolean): boolean {
     staleTime: Infinity,
     queryFn: async () => {
       try {
-        await getOutbox();
+        await getOutbox({ limit: 1 });
         return true;
       } catch (error) {
         if (error instanceof ApiError && error.status >= 400 && error.status < 500) return false;

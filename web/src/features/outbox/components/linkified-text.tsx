@@ -1,4 +1,5 @@
 import { Fragment } from "react";
+import type { OutboxMessage } from "../api/get-outbox";
 
 const URL_PATTERN = /(https?:\/\/[^\s<>"')\]]+)/g;
 
@@ -22,4 +23,16 @@ export function LinkifiedText({ text }: { text: string }) {
       )}
     </>
   );
+}
+
+/** Plain text of a message; an HTML-only body is reduced to text with each link's address kept. */
+export function messageText(message: Pick<OutboxMessage, "text" | "html">): string {
+  if (message.text) return message.text;
+  if (!message.html) return "";
+  const doc = new DOMParser().parseFromString(message.html, "text/html");
+  for (const anchor of Array.from(doc.querySelectorAll("a[href]"))) {
+    const href = anchor.getAttribute("href") ?? "";
+    if (href && anchor.textContent !== href) anchor.append(` (${href})`);
+  }
+  return (doc.body.textContent ?? "").replace(/\n{3,}/g, "\n\n").trim();
 }

@@ -5,13 +5,13 @@ import { EmptyState } from "../../../components/ui/empty-state";
 import { paths } from "../../../config/paths";
 import { formatDateTime, isoOrEmpty } from "../../../lib/format";
 import { useOutbox, type OutboxMessage } from "../api/get-outbox";
-import { LinkifiedText } from "./linkified-text";
+import { LinkifiedText, messageText } from "./linkified-text";
 
 export function OutboxView() {
   const outbox = useOutbox();
   const [params] = useSearchParams();
-  const messages = [...outbox.data.messages].sort((a, b) => Date.parse(b.createdAt) - Date.parse(a.createdAt));
-  const selected = messages.find((m) => m.id === params.get("message")) ?? messages[0];
+  const messages = [...outbox.data.items].sort((a, b) => Date.parse(b.createdAt) - Date.parse(a.createdAt));
+  const selected = messages.find((m) => String(m.id) === params.get("message")) ?? messages[0];
 
   if (!selected) {
     return (
@@ -74,6 +74,8 @@ function MessageBody({ message }: { message: OutboxMessage }) {
           {message.subject}
         </h2>
         <dl className="mt-1 grid grid-cols-[auto_1fr] gap-x-3 text-[0.8125rem]">
+          <dt className="text-ink-muted">From</dt>
+          <dd className="text-ink">{message.from}</dd>
           <dt className="text-ink-muted">To</dt>
           <dd className="text-ink">{message.to}</dd>
           <dt className="text-ink-muted">Captured</dt>
@@ -83,7 +85,7 @@ function MessageBody({ message }: { message: OutboxMessage }) {
         </dl>
       </header>
       <div className="flex-1 overflow-auto px-5 py-4 text-sm leading-relaxed whitespace-pre-wrap text-ink">
-        <LinkifiedText text={message.text} />
+        <LinkifiedText text={messageText(message)} />
       </div>
     </article>
   );

@@ -1,17 +1,12 @@
 import { useMutation, useQueryClient } from "@tanstack/react-query";
-import { z } from "zod";
+import { CreateInviteSchema, InviteSchema, type CreateInvite } from "../../../../../api/contracts/team";
 import { api } from "../../../lib/api-client";
-import { RoleSchema } from "../../../lib/auth";
 import { getInvitesQueryOptions } from "./get-invites";
 
-export const CreateInviteInputSchema = z.object({
-  email: z.email("Enter an e-mail address like name@example.org."),
-  role: RoleSchema,
-});
-export type CreateInviteInput = z.infer<typeof CreateInviteInputSchema>;
+export { CreateInviteSchema };
 
-export function createInvite(input: CreateInviteInput) {
-  return api.post("/team/invites", input, z.unknown());
+export function createInvite(input: CreateInvite) {
+  return api.post("/team/invites", input, InviteSchema);
 }
 
 export function useCreateInvite() {

@@ -1,20 +1,8 @@
 import { queryOptions, useSuspenseQuery } from "@tanstack/react-query";
-import { z } from "zod";
+import { InviteListSchema } from "../../../../../api/contracts/team";
 import { api } from "../../../lib/api-client";
-import { RoleSchema } from "../../../lib/auth";
 
-// Provisional until the shared team contract lands.
-const IdSchema = z.union([z.string(), z.number()]).transform(String);
-export const InviteSchema = z.object({
-  id: IdSchema,
-  email: z.string(),
-  role: RoleSchema,
-  createdAt: z.string().nullish(),
-  expiresAt: z.string().nullish(),
-});
-export type Invite = z.infer<typeof InviteSchema>;
-
-export const InviteListSchema = z.object({ invites: z.array(InviteSchema) });
+export type { Invite } from "../../../../../api/contracts/team";
 
 export function getInvites() {
   return api.get("/team/invites", InviteListSchema);

@@ -2,8 +2,8 @@ import { useMutation, useQueryClient } from "@tanstack/react-query";
 import { api } from "../../../lib/api-client";
 import { getTeamQueryOptions } from "./get-team";
 
-export function removeMember({ userId }: { userId: string }) {
-  return api.delete(`/team/members/${encodeURIComponent(userId)}`, null);
+export function removeMember({ userId }: { userId: number }) {
+  return api.delete(`/team/members/${userId}`, null);
 }
 
 export function useRemoveMember() {

@@ -2,8 +2,8 @@ import { useMutation, useQueryClient } from "@tanstack/react-query";
 import { api } from "../../../lib/api-client";
 import { getInvitesQueryOptions } from "./get-invites";
 
-export function revokeInvite({ id }: { id: string }) {
-  return api.delete(`/team/invites/${encodeURIComponent(id)}`, null);
+export function revokeInvite({ id }: { id: number }) {
+  return api.delete(`/team/invites/${id}`, null);
 }
 
 export function useRevokeInvite() {

@@ -1,10 +1,10 @@
 import { useMutation, useQueryClient } from "@tanstack/react-query";
+import type { UpdateMember } from "../../../../../api/contracts/team";
 import { api } from "../../../lib/api-client";
-import type { Role } from "../../../lib/auth";
 import { getTeamQueryOptions } from "./get-team";
 
-export function updateMemberRole({ userId, role }: { userId: string; role: Role }) {
-  return api.patch(`/team/members/${encodeURIComponent(userId)}`, { role }, null);
+export function updateMemberRole({ userId, role }: UpdateMember & { userId: number }) {
+  return api.patch(`/team/members/${userId}`, { role }, null);
 }
 
 export function useUpdateMemberRole() {

@@ -4,7 +4,7 @@ import { ErrorBanner, Notice } from "../../../components/ui/error-banner";
 import { SelectField, TextField } from "../../../components/ui/field";
 import { ROLE_OPTIONS } from "../../../lib/auth";
 import { focusFirstError, validate, type FieldErrors } from "../../../lib/form";
-import { CreateInviteInputSchema, useCreateInvite } from "../api/create-invite";
+import { CreateInviteSchema, useCreateInvite } from "../api/create-invite";
 
 export function InviteForm() {
   const create = useCreateInvite();
@@ -15,7 +15,7 @@ export function InviteForm() {
     event.preventDefault();
     const formElement = event.currentTarget;
     const form = new FormData(formElement);
-    const parsed = validate(CreateInviteInputSchema, { email: form.get("email"), role: form.get("role") });
+    const parsed = validate(CreateInviteSchema, { email: form.get("email"), role: form.get("role") });
     if (!parsed.ok) {
       setErrors(parsed.errors);
       focusFirstError(event.currentTarget, parsed.errors);

@@ -4,19 +4,19 @@ import { Button } from "../../../components/ui/button";
 import { ErrorBanner } from "../../../components/ui/error-banner";
 import { Select } from "../../../components/ui/field";
 import { TBody, TD, TH, THead, TR, Table } from "../../../components/ui/table";
-import { ROLE_LABELS, ROLE_OPTIONS, ROLE_TONES, RoleSchema } from "../../../lib/auth";
+import { ROLE_LABELS, ROLE_OPTIONS, ROLE_TONES, parseRole } from "../../../lib/auth";
 import { formatDateTime, isoOrEmpty } from "../../../lib/format";
 import { useTeam, type Member } from "../api/get-team";
 import { useRemoveMember } from "../api/remove-member";
 import { useUpdateMemberRole } from "../api/update-member-role";
 
-type MembersTableProps = { currentUserId: string; canManage: boolean };
+type MembersTableProps = { currentUserId: number; canManage: boolean };
 
 export function MembersTable({ currentUserId, canManage }: MembersTableProps) {
   const { data } = useTeam();
   const updateRole = useUpdateMemberRole();
   const remove = useRemoveMember();
-  const [confirming, setConfirming] = useState<string | null>(null);
+  const [confirming, setConfirming] = useState<number | null>(null);
   const mutationError = updateRole.error ?? remove.error;
 
   return (
@@ -83,7 +83,7 @@ function MemberRow({ member, isSelf, canManage, confirming, busy, onConfirm, onR
             value={member.role}
             options={ROLE_OPTIONS}
             disabled={busy}
-            onChange={(event) => onRoleChange(RoleSchema.parse(event.target.value))}
+            onChange={(event) => onRoleChange(parseRole(event.target.value))}
           />
         ) : (
           <Badge tone={ROLE_TONES[member.role]}>{ROLE_LABELS[member.role]}</Badge>

@@ -12,7 +12,7 @@ export function PendingInvites() {
   const { data } = useInvites();
   const revoke = useRevokeInvite();
 
-  if (data.invites.length === 0) {
+  if (data.items.length === 0) {
     return <EmptyState title="No pending invitations">Invitations you send appear here until they are accepted.</EmptyState>;
   }
 
@@ -24,18 +24,20 @@ export function PendingInvites() {
           <TR>
             <TH>E-mail</TH>
             <TH>Role</TH>
+            <TH>Invited by</TH>
             <TH>Sent</TH>
             <TH>Expires</TH>
             <TH className="text-right">Actions</TH>
           </TR>
         </THead>
         <TBody>
-          {data.invites.map((invite) => (
+          {data.items.map((invite) => (
             <TR key={invite.id}>
               <TD className="font-medium">{invite.email}</TD>
               <TD>
                 <Badge tone={ROLE_TONES[invite.role]}>{ROLE_LABELS[invite.role]}</Badge>
               </TD>
+              <TD className="text-ink-soft">{invite.invitedBy ?? "—"}</TD>
               <TD className="num text-ink-soft">
                 <time dateTime={isoOrEmpty(invite.createdAt)}>{formatDateTime(invite.createdAt)}</time>
               </TD>

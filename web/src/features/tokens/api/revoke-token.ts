@@ -2,8 +2,8 @@ import { useMutation, useQueryClient } from "@tanstack/react-query";
 import { api } from "../../../lib/api-client";
 import { getTokensQueryOptions } from "./get-tokens";
 
-export function revokeToken({ id }: { id: string }) {
-  return api.delete(`/tokens/${encodeURIComponent(id)}`, null);
+export function revokeToken({ id }: { id: number }) {
+  return api.delete(`/tokens/${id}`, null);
 }
 
 export function useRevokeToken() {

@@ -3,7 +3,7 @@ import { Button } from "../../../components/ui/button";
 import { ErrorBanner } from "../../../components/ui/error-banner";
 import { TextField } from "../../../components/ui/field";
 import { focusFirstError, validate, type FieldErrors } from "../../../lib/form";
-import { CreateTokenInputSchema, useCreateToken, type CreatedToken } from "../api/create-token";
+import { CreateTokenSchema, useCreateToken, type CreatedToken } from "../api/create-token";
 
 export function CreateTokenForm() {
   const create = useCreateToken();
@@ -13,7 +13,7 @@ export function CreateTokenForm() {
   function handleSubmit(event: FormEvent<HTMLFormElement>) {
     event.preventDefault();
     const formElement = event.currentTarget;
-    const parsed = validate(CreateTokenInputSchema, { name: new FormData(formElement).get("name") });
+    const parsed = validate(CreateTokenSchema, { name: new FormData(formElement).get("name") });
     if (!parsed.ok) {
       setErrors(parsed.errors);
       focusFirstError(event.currentTarget, parsed.errors);

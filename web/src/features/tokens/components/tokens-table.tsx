@@ -1,3 +1,4 @@
+import { StatusPill } from "../../../components/ui/badge";
 import { Button } from "../../../components/ui/button";
 import { EmptyState } from "../../../components/ui/empty-state";
 import { ErrorBanner } from "../../../components/ui/error-banner";
@@ -6,11 +7,11 @@ import { formatDateTime, isoOrEmpty } from "../../../lib/format";
 import { useRevokeToken } from "../api/revoke-token";
 import { useTokens } from "../api/get-tokens";
 
-export function TokensTable({ canRevoke }: { canRevoke: boolean }) {
+export function TokensTable() {
   const { data } = useTokens();
   const revoke = useRevokeToken();
 
-  if (data.tokens.length === 0) {
+  if (data.items.length === 0) {
     return (
       <EmptyState title="No API tokens yet">
         Scripts and pipelines use a token to fetch score files without a browser session.
@@ -21,19 +22,22 @@ export function TokensTable({ canRevoke }: { canRevoke: boolean }) {
   return (
     <div className="flex flex-col gap-3">
       {revoke.isError ? <ErrorBanner error={revoke.error} title="The token was not revoked" /> : null}
-      <Table caption="API tokens" className="-mx-4">
+      <Table caption="Your API tokens" className="-mx-4">
         <THead>
           <TR>
             <TH>Name</TH>
+            <TH>Starts with</TH>
             <TH>Created</TH>
             <TH>Last used</TH>
-            {canRevoke ? <TH className="text-right">Actions</TH> : null}
+            <TH>State</TH>
+            <TH className="text-right">Actions</TH>
           </TR>
         </THead>
         <TBody>
-          {data.tokens.map((token) => (
-            <TR key={token.id}>
+          {data.items.map((token) => (
+            <TR key={token.id} className={token.revokedAt ? "text-ink-muted" : undefined}>
               <TD className="font-medium">{token.name}</TD>
+              <TD className="num text-ink-soft">{token.hint}…</TD>
               <TD className="num text-ink-soft">
                 <time dateTime={isoOrEmpty(token.createdAt)}>{formatDateTime(token.createdAt)}</time>
               </TD>
@@ -44,8 +48,9 @@ export function TokensTable({ canRevoke }: { canRevoke: boolean }) {
                   <span className="font-sans text-ink-muted">Never</span>
                 )}
               </TD>
-              {canRevoke ? (
-                <TD className="text-right">
+              <TD>{token.revokedAt ? <StatusPill tone="neutral" label="Revoked" /> : <StatusPill tone="ok" label="Active" />}</TD>
+              <TD className="text-right">
+                {token.revokedAt ? null : (
                   <Button
                     size="sm"
                     variant="danger"
@@ -55,8 +60,8 @@ export function TokensTable({ canRevoke }: { canRevoke: boolean }) {
                   >
                     Revoke
                   </Button>
-                </TD>
-              ) : null}
+                )}
+              </TD>
             </TR>
           ))}
         </TBody>
