@@ -59,7 +59,7 @@ export function AppLayout({ nav, user, onSignOut, signingOut, children }: AppLay
             </div>
           ))}
         </nav>
-        <div className="border-t border-ink-line px-4 py-3">
+        <div role="group" aria-label="Signed-in user" className="border-t border-ink-line px-4 py-3">
           <p className="truncate text-[0.8125rem] font-medium text-paper" title={user.name}>
             {user.name}
           </p>
