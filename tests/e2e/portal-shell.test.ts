@@ -2,7 +2,10 @@ import { randomBytes } from "node:crypto";
 import type { Page } from "playwright-core";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import type { RunningServer } from "../../api/src/server";
+import { recordActivity } from "../../api/src/features/activity/activity.service";
+import { findTeamByName, findUserByEmail } from "../../api/src/features/team/team.repo";
 import { ERRORS } from "../../api/src/lib/errors";
+import { ACTIVITY_PAGE_SIZE } from "../../web/src/features/activity/api/get-activity";
 import { DEMO_PASSWORD, DEMO_TEAM, DEMO_USERS, launchBrowser, screenshot, seedDemo, startPortal, type Browser } from "./support";
 
 async function signIn(page: Page, baseUrl: string, email: string, password: string): Promise<void> {
@@ -171,11 +174,26 @@ describe("portal shell in a real browser", () => {
       await screenshot(page, file);
     }
 
+    // More entries than one page, all newer than the invitation, so the invitation only shows after "Load more".
+    const teamId = (await findTeamByName(server.deps.db, DEMO_TEAM))?.id ?? null;
+    const viewerId = (await findUserByEmail(server.deps.db, "viewer@kestrel.example"))?.id ?? null;
+    for (let i = 0; i < ACTIVITY_PAGE_SIZE + 10; i++) {
+      await recordActivity(server.deps.db, { teamId, actorUserId: viewerId, action: "auth.signed-in", target: "viewer@kestrel.example" });
+    }
+
     await page.getByRole("navigation", { name: "Main" }).getByRole("link", { name: "Activity" }).click();
     const log = page.getByRole("table", { name: "Activity log, newest first" });
     await log.waitFor();
-    expect(await log.getByRole("row").filter({ hasText: invitee.email }).count()).toBeGreaterThan(0);
+    expect(await log.getByRole("row").count()).toBe(1 + ACTIVITY_PAGE_SIZE);
+    expect(await log.getByRole("row").filter({ hasText: invitee.email }).count()).toBe(0);
     await screenshot(page, "14-activity");
+
+    await page.getByRole("button", { name: "Load more" }).click();
+    await page.getByText("End of the log").waitFor();
+    const rows = (await log.getByRole("row").count()) - 1;
+    expect(rows).toBeGreaterThan(ACTIVITY_PAGE_SIZE + 10);
+    expect(await page.getByText(`Showing ${rows} entries`).count()).toBe(1);
+    expect(await log.getByRole("row").filter({ hasText: "team.invite-created" }).filter({ hasText: invitee.email }).count()).toBe(1);
 
     expect(browser.pageErrors).toEqual([]);
   });

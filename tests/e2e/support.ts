@@ -91,7 +91,8 @@ export async function launchBrowser(): Promise<Browser> {
 
 export async function screenshot(page: Page, name: string): Promise<void> {
   mkdirSync(ARTIFACTS_DIR, { recursive: true });
-  // Let fonts and the last layout settle so the picture shows what a person would see.
+  // Let fonts load and colour transitions finish so the picture shows what a person would see.
   await page.evaluate(() => document.fonts.ready);
+  await page.waitForTimeout(250);
   await page.screenshot({ path: path.join(ARTIFACTS_DIR, `${name}.png`), fullPage: true });
 }

@@ -30,7 +30,14 @@ function ensureChromium(): void {
 export default async function setup(project: TestProject): Promise<void> {
   ensureChromium();
   // Build once per test run so the browser exercises the same bundle that production serves.
-  await build({ configFile: path.join(ROOT, "vite.config.ts"), mode: "production", logLevel: "warn" });
+  // Vitest sets NODE_ENV=test, which would make Vite bundle React's development build; build what production serves.
+  const nodeEnv = process.env.NODE_ENV;
+  process.env.NODE_ENV = "production";
+  try {
+    await build({ configFile: path.join(ROOT, "vite.config.ts"), mode: "production", logLevel: "warn" });
+  } finally {
+    process.env.NODE_ENV = nodeEnv;
+  }
   if (!existsSync(path.join(WEB_DIST, "index.html"))) throw new Error(`vite build did not produce ${WEB_DIST}/index.html`);
   project.provide("webDistDir", WEB_DIST);
   project.provide("chromiumPath", CHROMIUM_PATH);

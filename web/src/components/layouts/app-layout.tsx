@@ -66,11 +66,9 @@ export function AppLayout({ nav, user, onSignOut, signingOut, children }: AppLay
           <p className="truncate text-xs text-paper/70" title={user.email}>
             {user.email}
           </p>
-          <p className="mt-1.5 flex items-center gap-1.5 text-xs text-paper/80">
-            <span className="rounded-sm bg-amber px-1.5 py-px font-semibold text-ink-deep">{user.roleLabel}</span>
-            <span className="truncate" title={user.teamName}>
-              {user.teamName}
-            </span>
+          <p className="mt-2 text-xs leading-snug text-paper/80">{user.teamName}</p>
+          <p className="mt-1">
+            <span className="rounded-sm bg-amber px-1.5 py-px text-xs font-semibold text-ink-deep">{user.roleLabel}</span>
           </p>
           <Button
             size="sm"

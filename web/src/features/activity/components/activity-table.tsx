@@ -10,7 +10,7 @@ export function ActivityTable() {
   const entries = activity.data.pages.flatMap((page) => page.items);
 
   if (entries.length === 0) {
-    return <EmptyState title="Nothing recorded yet">Sign-ins, invitations, role changes and runs are logged here.</EmptyState>;
+    return <EmptyState className="my-3" title="Nothing recorded yet">Sign-ins, invitations, role changes and runs are logged here.</EmptyState>;
   }
 
   return (

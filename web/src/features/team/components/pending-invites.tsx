@@ -13,7 +13,7 @@ export function PendingInvites() {
   const revoke = useRevokeInvite();
 
   if (data.items.length === 0) {
-    return <EmptyState title="No pending invitations">Invitations you send appear here until they are accepted.</EmptyState>;
+    return <EmptyState className="my-3" title="No pending invitations">Invitations you send appear here until they are accepted.</EmptyState>;
   }
 
   return (

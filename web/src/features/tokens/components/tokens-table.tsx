@@ -13,7 +13,7 @@ export function TokensTable() {
 
   if (data.items.length === 0) {
     return (
-      <EmptyState title="No API tokens yet">
+      <EmptyState className="my-3" title="No API tokens yet">
         Scripts and pipelines use a token to fetch score files without a browser session.
       </EmptyState>
     );
