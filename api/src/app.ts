@@ -41,6 +41,10 @@ export function createApp(deps: AppDeps, routes: readonly RouteDef[] = ROUTES): 
     pinoHttp({
       logger: deps.logger,
       autoLogging: { ignore: (req) => req.url === "/api/health" },
+      serializers: {
+        req: (req: { id: unknown; method: string; url: string }) => ({ id: req.id, method: req.method, url: req.url }),
+        res: (res: { statusCode: number }) => ({ statusCode: res.statusCode }),
+      },
       customLogLevel: (_req, res, error) => (error || res.statusCode >= 500 ? "error" : res.statusCode >= 400 ? "warn" : "info"),
     }),
   );
