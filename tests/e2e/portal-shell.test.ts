@@ -195,6 +195,17 @@ describe("portal shell in a real browser", () => {
     expect(await page.getByText(`Showing ${rows} entries`).count()).toBe(1);
     expect(await log.getByRole("row").filter({ hasText: "team.invite-created" }).filter({ hasText: invitee.email }).count()).toBe(1);
 
+    await page.goto(`${server.url}/`);
+    await page.getByRole("heading", { level: 1, name: "Overview" }).waitFor();
+    const focused = () => page.evaluate(() => document.activeElement?.textContent?.trim() ?? "");
+    await page.keyboard.press("Tab");
+    expect(await focused()).toBe("Skip to content");
+    await page.keyboard.press("Tab");
+    expect(await focused()).toBe("Overview");
+    await page.keyboard.press("Tab");
+    expect(await focused()).toBe("Graphs");
+    await screenshot(page, "15-keyboard-focus");
+
     expect(browser.pageErrors).toEqual([]);
   });
 });

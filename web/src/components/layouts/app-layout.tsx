@@ -24,7 +24,7 @@ export function AppLayout({ nav, user, onSignOut, signingOut, children }: AppLay
       >
         Skip to content
       </a>
-      <aside className="w-56 shrink-0 bg-ink text-paper">
+      <aside data-surface="ink" className="w-56 shrink-0 bg-ink text-paper">
         <div className="sticky top-0 flex h-screen flex-col">
         <div className="flex h-14 items-center border-b border-ink-line px-4">
           <Wordmark inverse />

@@ -38,8 +38,8 @@ export function Component() {
         </Region>
       </Card>
       {canManage ? (
-        <div className="grid gap-5 lg:grid-cols-[minmax(0,2fr)_minmax(0,3fr)]">
-          <Card title="Invite someone" description="They get an e-mail with a link that works once.">
+        <>
+          <Card title="Invite someone" description="They get an e-mail with a link that works once and expires.">
             <InviteForm />
           </Card>
           <Card title="Pending invitations" bodyClassName="px-4 pt-1 pb-2">
@@ -47,7 +47,7 @@ export function Component() {
               <PendingInvites />
             </Region>
           </Card>
-        </div>
+        </>
       ) : null}
     </>
   );

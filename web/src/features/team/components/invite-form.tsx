@@ -35,25 +35,27 @@ export function InviteForm() {
     <form noValidate onSubmit={handleSubmit} aria-label="Invite a member" className="flex flex-col gap-3">
       {create.isError ? <ErrorBanner error={create.error} title="The invitation was not sent" /> : null}
       {sentTo ? <Notice>Invitation sent to {sentTo}.</Notice> : null}
-      <TextField
-        label="E-mail"
-        name="email"
-        type="email"
-        autoComplete="off"
-        placeholder="name@kestrel.example"
-        error={errors.email}
-        required
-      />
-      <div className="flex items-end gap-3">
+      <div className="flex flex-wrap items-start gap-3">
+        <TextField
+          label="E-mail"
+          name="email"
+          type="email"
+          autoComplete="off"
+          placeholder="name@kestrel.example"
+          error={errors.email}
+          fieldClassName="min-w-64 flex-1"
+          required
+        />
         <SelectField
           label="Role"
           name="role"
           options={ROLE_OPTIONS}
           defaultValue="viewer"
-          fieldClassName="flex-1"
+          fieldClassName="w-40"
           error={errors.role}
         />
-        <Button type="submit" variant="primary" busy={create.isPending}>
+        {/* Offset by the label's height so the button lines up with the inputs, with or without field errors. */}
+        <Button type="submit" variant="primary" busy={create.isPending} className="mt-[1.375rem]">
           Send invitation
         </Button>
       </div>
