@@ -13,18 +13,19 @@ afterAll(() => Promise.all([...pools.values()].map((p) => p.close())));
 describe("bit-identical across threads and shards", () => {
   const e = applyPolicies(randomEdges(42, 12 * BLOCK_NODES + 123, 5, 0.25), true);
   const g = toGraph(e);
-  const variants: [string, Partial<RankParams>][] = [
-    ["unweighted, uniform teleport", {}],
-    ["weighted, seeds, dangling follows teleport", { weighted: true, teleport: { kind: "seeds", seeds: [{ node: 7, weight: 1 }, { node: 40_000, weight: 3 }] } }],
-    ["weighted, seeds, uniform dangling", { weighted: true, dangling: "uniform", teleport: { kind: "seeds", seeds: [{ node: 9, weight: 1 }] } }],
+  const variants: [string, Partial<RankParams>, "js" | "wasm"][] = [
+    ["unweighted, uniform teleport, JS kernel", {}, "js"],
+    ["unweighted, uniform teleport, wasm kernel", {}, "wasm"],
+    ["weighted, seeds, dangling follows teleport", { weighted: true, teleport: { kind: "seeds", seeds: [{ node: 7, weight: 1 }, { node: 40_000, weight: 3 }] } }, "wasm"],
+    ["weighted, seeds, uniform dangling", { weighted: true, dangling: "uniform", teleport: { kind: "seeds", seeds: [{ node: 9, weight: 1 }] } }, "js"],
   ];
-  for (const [name, p] of variants) {
+  for (const [name, p, kernel] of variants) {
     it(name, async () => {
       let first: Float64Array | null = null;
       let firstResiduals: number[] = [];
       for (const threads of [1, 2]) {
         for (const shards of [1, 2, 3, 7]) {
-          const r = await rank(g, { ...PARAMS, ...p, shards }, { pool: pools.get(threads) });
+          const r = await rank(g, { ...PARAMS, ...p, shards }, { pool: pools.get(threads), kernel });
           expect(r.converged).toBe(true);
           if (first === null) {
             first = r.scores;
@@ -38,7 +39,7 @@ describe("bit-identical across threads and shards", () => {
     });
   }
 
-  it("a graph whose arrays already live in shared memory is used as is and gives the same bits", async () => {
+  it("a graph whose arrays already live in shared memory gives the same bits on the JS kernel", async () => {
     const share = <T extends Uint32Array | Float64Array>(a: T, make: (b: SharedArrayBuffer) => T): T => {
       const s = make(new SharedArrayBuffer(a.byteLength));
       s.set(a);
@@ -52,7 +53,7 @@ describe("bit-identical across threads and shards", () => {
       weights: g.weights && share(g.weights, (b) => new Float64Array(b)),
     };
     const a = await rank(g, { ...PARAMS, weighted: true }, { pool: pools.get(2) });
-    const b = await rank(shared, { ...PARAMS, weighted: true }, { pool: pools.get(2) });
+    const b = await rank(shared, { ...PARAMS, weighted: true }, { pool: pools.get(2), kernel: "js" });
     expect(sameBits(a.scores, b.scores)).toBe(true);
   });
 

@@ -176,7 +176,7 @@ describe("run state", () => {
     const g = toGraph(applyPolicies(randomEdges(10, 100, 3), true));
     const sources = new Uint32Array(new SharedArrayBuffer(g.sources.byteLength));
     sources.set(g.sources);
-    const s = prepareRunState({ ...g, sources }, { weighted: true, seeds: null, start: null });
+    const s = prepareRunState({ ...g, sources }, { kernel: "js", weighted: true, seeds: null, start: null });
     expect(s.views.sources).toBe(sources);
     expect(s.views.inOffsets).not.toBe(g.inOffsets);
     expect(s.views.inOffsets.buffer).toBeInstanceOf(SharedArrayBuffer);

@@ -23,12 +23,8 @@ function checkBlockSums(blockSums: Float64Array, n: number, blockNodes: number):
   if (blockSums.length < blocks * BLOCK_SLOTS) fail("blockSums.length", blockSums.length, `must be ≥ ${blocks * BLOCK_SLOTS}`);
 }
 
-/**
- * Checked pullStepCsr: x1[v] = alpha·Σ_{u→v} c0[u]·w_uv + (q + p·tel[v]) for v in [start, end), with block sums.
- * Only O(1) shape checks: source indices are validated once per graph (checkGraph), not per step.
- * @example pullStep({ start: 0, end: n, inOffsets, sources, weights: null, outWeight, c0, x0, x1, c1, scalars, tel: null, blockSums, blockNodes })
- */
-export function pullStep(a: {
+/** Arguments of one step over a target range (see pullStepCsr for the layout and the math). */
+export interface StepArgs {
   start: number;
   end: number;
   inOffsets: Uint32Array;
@@ -43,7 +39,13 @@ export function pullStep(a: {
   tel: Float64Array | null;
   blockSums: Float64Array;
   blockNodes: number;
-}): Float64Array {
+}
+
+/**
+ * Validates the arguments of a step: O(1) shape checks only, since source indices are validated once per graph
+ * (checkGraph), not per step. Every kernel implementation calls this first.
+ */
+export function checkStep(a: StepArgs): void {
   const n = a.outWeight.length;
   checkLength("inOffsets", a.inOffsets, n + 1);
   const m = a.inOffsets[n];
@@ -58,6 +60,14 @@ export function pullStep(a: {
   if (!(alpha >= 0 && alpha < 1)) fail("scalars.alpha", alpha, "must be in [0, 1)");
   if (!Number.isFinite(p)) fail("scalars.p", p, "must be finite");
   if (!Number.isFinite(q)) fail("scalars.q", q, "must be finite");
+}
+
+/**
+ * Checked pullStepCsr: x1[v] = alpha·Σ_{u→v} c0[u]·w_uv + (q + p·tel[v]) for v in [start, end), with block sums.
+ * @example pullStep({ start: 0, end: n, inOffsets, sources, weights: null, outWeight, c0, x0, x1, c1, scalars, tel: null, blockSums, blockNodes })
+ */
+export function pullStep(a: StepArgs): Float64Array {
+  checkStep(a);
   return pullStepCsr(
     a.start, a.end, a.inOffsets, a.sources, a.weights, a.outWeight,
     a.c0, a.x0, a.x1, a.c1, a.scalars, a.tel, a.blockSums, a.blockNodes,

@@ -40,7 +40,11 @@ export interface RankHooks {
   resumeFrom?: { k: number; x: Float64Array };
   retry?: RetryPolicy;
   faults?: FaultPlan[];
+  /** Step kernel; "auto" (default) takes WebAssembly when the run fits one 32-bit memory. Same bits either way. */
+  kernel?: KernelKind;
 }
+
+export type KernelKind = "js" | "wasm" | "auto";
 
 export interface RankResult {
   scores: Float64Array;
@@ -101,7 +105,12 @@ export async function rank(graph: Graph, params: RankParams, opts: { pool?: Rank
 
 async function iterate(graph: Graph, params: RankParams, hooks: RankHooks, pool: RankPool, t0: number): Promise<RankResult> {
   const seeds = params.teleport.kind === "seeds" ? params.teleport.seeds : null;
-  const s = prepareRunState(graph, { weighted: params.weighted, seeds, start: hooks.resumeFrom?.x ?? null });
+  const s = prepareRunState(graph, {
+    kernel: hooks.kernel ?? "auto",
+    weighted: params.weighted,
+    seeds,
+    start: hooks.resumeFrom?.x ?? null,
+  });
   const runId = `${process.pid}-${++runCounter}`;
   const plan = planShards(s.views.inOffsets, s.n, params.shards ?? pool.threads, s.blockNodes);
   const shards: ShardState[] = plan.map((r) => ({ ...r, state: "queued", attempts: 0 }));

@@ -10,6 +10,7 @@ export interface RunState {
   n: number;
   blocks: number;
   blockNodes: number;
+  kernel: "js" | "wasm";
   buffers: RunBuffers;
   views: RunViews;
   seeded: boolean;
@@ -21,27 +22,68 @@ export interface RunState {
 }
 
 export interface StateInputs {
+  kernel: "js" | "wasm" | "auto";
   weighted: boolean;
   seeds: { node: number; weight: number }[] | null;
   start: Float64Array | null;
 }
 
-function sharedF64(length: number): Float64Array {
-  return new Float64Array(new SharedArrayBuffer(Math.max(1, length) * 8), 0, length);
+const WASM_PAGE = 65_536;
+const WASM_MAX_PAGES = 65_536;
+/** The first page stays unused so that no array sits at byte offset 0 (the kernel's "absent" marker). */
+const WASM_BASE = WASM_PAGE;
+
+/** Hands out typed arrays in shared memory: separate SharedArrayBuffers, or one shared WebAssembly.Memory. */
+class Arena {
+  readonly memory: WebAssembly.Memory | null;
+  #at = WASM_BASE;
+
+  constructor(wasmBytes: number | null) {
+    this.memory = null;
+    if (wasmBytes !== null) {
+      const pages = Math.ceil((WASM_BASE + wasmBytes) / WASM_PAGE);
+      this.memory = new WebAssembly.Memory({ initial: pages, maximum: pages, shared: true });
+    }
+  }
+
+  #take(bytes: number): [SharedArrayBuffer, number] {
+    if (this.memory === null) return [new SharedArrayBuffer(Math.max(8, bytes)), 0];
+    const at = this.#at;
+    this.#at += Math.ceil(bytes / 8) * 8;
+    return [this.memory.buffer as unknown as SharedArrayBuffer, at];
+  }
+
+  f64(length: number): Float64Array {
+    const [buf, at] = this.#take(length * 8);
+    return new Float64Array(buf, at, length);
+  }
+
+  u32(length: number): Uint32Array {
+    const [buf, at] = this.#take(length * 4);
+    return new Uint32Array(buf, at, length);
+  }
+
+  /** `a` itself when it already lives in shared memory this arena can use, else a copy. */
+  shareU32(a: Uint32Array): Uint32Array {
+    if (this.memory === null && a.buffer instanceof SharedArrayBuffer) return a;
+    const s = this.u32(a.length);
+    s.set(a);
+    return s;
+  }
+
+  shareF64(a: Float64Array): Float64Array {
+    if (this.memory === null && a.buffer instanceof SharedArrayBuffer) return a;
+    const s = this.f64(a.length);
+    s.set(a);
+    return s;
+  }
 }
 
-function shareU32(a: Uint32Array): Uint32Array {
-  if (a.buffer instanceof SharedArrayBuffer) return a;
-  const s = new Uint32Array(new SharedArrayBuffer(Math.max(1, a.length) * 4), 0, a.length);
-  s.set(a);
-  return s;
-}
-
-function shareF64(a: Float64Array): Float64Array {
-  if (a.buffer instanceof SharedArrayBuffer) return a;
-  const s = sharedF64(a.length);
-  s.set(a);
-  return s;
+/** Bytes the run needs in one linear memory, or null when it does not fit 32-bit addressing. */
+function wasmBytes(n: number, m: number, weighted: boolean, seeded: boolean, blocks: number): number | null {
+  const f64s = n * (seeded ? 6 : 5) + (weighted ? m : 0) + blocks * BLOCK_SLOTS;
+  const bytes = f64s * 8 + (n + 1 + m) * 4 + 16 * 8;
+  return WASM_BASE + bytes <= WASM_MAX_PAGES * WASM_PAGE ? bytes : null;
 }
 
 /**
@@ -53,16 +95,19 @@ export function prepareRunState(graph: Graph, inp: StateInputs): RunState {
   const n = graph.n;
   const blockNodes = BLOCK_NODES;
   const blocks = Math.ceil(n / blockNodes);
-  const inOffsets = shareU32(graph.inOffsets);
-  const sources = shareU32(graph.sources);
   const useWeights = inp.weighted && graph.weights !== null;
-  const weights = useWeights && graph.weights ? shareF64(graph.weights) : null;
+  const need = inp.kernel === "js" ? null : wasmBytes(n, graph.m, useWeights, inp.seeds !== null, blocks);
+  if (inp.kernel === "wasm" && need === null) throw new RangeError(`graph is too large for the wasm kernel. Value: n = ${n}, m = ${graph.m}`);
+  const arena = new Arena(need);
+  const inOffsets = arena.shareU32(graph.inOffsets);
+  const sources = arena.shareU32(graph.sources);
+  const weights = useWeights && graph.weights ? arena.shareF64(graph.weights) : null;
   // Unweighted run on a weighted graph: W_u is the out-edge count, not the stored out-weight.
-  const outWeight = graph.weights !== null && !useWeights ? outDegree(sources, sharedF64(n)) : shareF64(graph.outWeight);
-  const tel = inp.seeds ? shareF64(teleportVector(n, inp.seeds)) : null;
-  const x: [Float64Array, Float64Array] = [sharedF64(n), sharedF64(n)];
-  const c: [Float64Array, Float64Array] = [sharedF64(n), sharedF64(n)];
-  const blockSums = sharedF64(blocks * BLOCK_SLOTS);
+  const outWeight = graph.weights !== null && !useWeights ? outDegree(sources, arena.f64(n)) : arena.shareF64(graph.outWeight);
+  const tel = inp.seeds ? arena.shareF64(teleportVector(n, inp.seeds)) : null;
+  const x: [Float64Array, Float64Array] = [arena.f64(n), arena.f64(n)];
+  const c: [Float64Array, Float64Array] = [arena.f64(n), arena.f64(n)];
+  const blockSums = arena.f64(blocks * BLOCK_SLOTS);
   if (inp.start) {
     if (inp.start.length !== n) throw new RangeError(`resumeFrom.x.length must be n = ${n}. Value: ${inp.start.length}`);
     x[0].set(inp.start);
@@ -75,6 +120,7 @@ export function prepareRunState(graph: Graph, inp: StateInputs): RunState {
   const sums = combineBlocks(blockSums, blocks);
   const views: RunViews = { inOffsets, sources, weights, outWeight, tel, x, c, blockSums };
   const buffers: RunBuffers = {
+    memory: arena.memory,
     inOffsets: sliceOf(inOffsets),
     sources: sliceOf(sources),
     weights: weights && sliceOf(weights),
@@ -84,5 +130,6 @@ export function prepareRunState(graph: Graph, inp: StateInputs): RunState {
     c: [sliceOf(c[0]), sliceOf(c[1])],
     blockSums: sliceOf(blockSums),
   };
-  return { n, blocks, blockNodes, buffers, views, seeded: tel !== null, cur: 0, danglingMass: sums.dangling, mass: sums.sum };
+  const kernel = arena.memory ? "wasm" : "js";
+  return { n, blocks, blockNodes, kernel, buffers, views, seeded: tel !== null, cur: 0, danglingMass: sums.dangling, mass: sums.sum };
 }

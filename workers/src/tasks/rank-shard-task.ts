@@ -1,5 +1,6 @@
 // The message a shard task receives and the views a worker rebuilds from it (cached per run).
 import type { StepScalars } from "../core/pull-step-csr";
+import { instantiateStep } from "./wasm-step";
 
 export type FaultKind = "throw" | "exit-worker" | "hang";
 
@@ -12,6 +13,8 @@ export interface SharedSlice {
 
 /** Shared state of one run: graph arrays, the two iterates and the two contribution vectors, block sums. */
 export interface RunBuffers {
+  /** Set when every slice lives in this memory and the wasm kernel runs the steps. */
+  memory: WebAssembly.Memory | null;
   inOffsets: SharedSlice;
   sources: SharedSlice;
   weights: SharedSlice | null;
@@ -52,6 +55,11 @@ export interface RunViews {
   blockSums: Float64Array;
 }
 
+export interface CachedRun {
+  views: RunViews;
+  wasm: ReturnType<typeof instantiateStep> | null;
+}
+
 const f64 = (s: SharedSlice) => new Float64Array(s.buffer, s.byteOffset, s.length);
 const u32 = (s: SharedSlice) => new Uint32Array(s.buffer, s.byteOffset, s.length);
 
@@ -68,14 +76,14 @@ export function runViews(b: RunBuffers): RunViews {
   };
 }
 
-const cache = new Map<string, RunViews>();
+const cache = new Map<string, CachedRun>();
 const CACHED_RUNS = 4;
 
-/** Views for a run, built once per worker and run (the buffers of a run never change). */
-export function cachedRunViews(runId: string, b: RunBuffers): RunViews {
+/** Views (and the wasm instance) for a run, built once per worker and run: the buffers of a run never change. */
+export function cachedRun(runId: string, b: RunBuffers): CachedRun {
   let v = cache.get(runId);
   if (v === undefined) {
-    v = runViews(b);
+    v = { views: runViews(b), wasm: b.memory && instantiateStep(b.memory) };
     cache.set(runId, v);
     if (cache.size > CACHED_RUNS) cache.delete(cache.keys().next().value as string);
   }

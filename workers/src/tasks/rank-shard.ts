@@ -2,12 +2,15 @@
 import { threadId } from "node:worker_threads";
 import { pullStep } from "../core/pull-step";
 import { injectFault } from "./fault";
-import { cachedRunViews, type ShardDone, type ShardTask } from "./rank-shard-task";
+import { cachedRun, type ShardDone, type ShardTask } from "./rank-shard-task";
+import { wasmStep } from "./wasm-step";
 
 export default function rankShard(t: ShardTask): ShardDone {
   if (t.fault) injectFault(t.fault);
-  const v = cachedRunViews(t.runId, t.buffers);
+  const { views: v, wasm } = cachedRun(t.runId, t.buffers);
   const [x0, x1, c0, c1] = [v.x[t.cur], v.x[1 - t.cur], v.c[t.cur], v.c[1 - t.cur]];
-  pullStep({ ...v, start: t.start, end: t.end, c0, x0, x1, c1, scalars: t.scalars, blockNodes: t.blockNodes });
+  const args = { ...v, start: t.start, end: t.end, c0, x0, x1, c1, scalars: t.scalars, blockNodes: t.blockNodes };
+  if (wasm) wasmStep(wasm, args);
+  else pullStep(args);
   return { threadId };
 }

@@ -1,0 +1,114 @@
+// Time per iteration of the pull step on an R-MAT graph: JS vs WASM kernel, 1 and 2 threads.
+// Usage: tsx bench/kernel.bench.ts [--scale 20] [--edges pairs.bin] [--threads 1,2] [--kernels js,wasm] [--reps 3]
+//        [--iterations 12] [--ref PR_REF_BINARY --ref-edges EDGES_TSV]
+// --edges reads little-endian int32 (src, dst) pairs; --ref runs the C reference between our runs (same minute,
+// alternated, since the machines are noisy) and prints the ratio of medians.
+import { execFileSync } from "node:child_process";
+import { readFileSync } from "node:fs";
+import { parseArgs } from "node:util";
+import { fromDenseEdges, type Graph } from "../workers/src/core/graph";
+import { rank, RankPool, type RankParams } from "../workers/src/engine/rank";
+import type { KernelKind } from "../workers/src/engine/rank";
+
+const { values: opt } = parseArgs({
+  options: {
+    scale: { type: "string", default: "20" },
+    edges: { type: "string" },
+    threads: { type: "string", default: "1,2" },
+    kernels: { type: "string", default: "js,wasm" },
+    reps: { type: "string", default: "3" },
+    iterations: { type: "string", default: "12" },
+    ref: { type: "string" },
+    "ref-edges": { type: "string" },
+  },
+});
+
+/** Graph500 initiator a=0.57 b=0.19 c=0.19 d=0.05, edge factor 16, ids scrambled by an odd multiply mod 2^scale. */
+function rmatPairs(scale: number): Uint32Array {
+  const m = 16 * 2 ** scale;
+  const pairs = new Uint32Array(2 * m);
+  let s = 0x9e3779b9;
+  const rnd = () => {
+    s ^= s << 13;
+    s ^= s >>> 17;
+    s ^= s << 5;
+    return (s >>> 0) / 4294967296;
+  };
+  const mask = 2 ** scale - 1;
+  for (let e = 0; e < m; e++) {
+    let u = 0;
+    let v = 0;
+    for (let l = 0; l < scale; l++) {
+      const r = rnd();
+      u = (u << 1) | (r >= 0.76 ? 1 : 0);
+      v = (v << 1) | ((r >= 0.57 && r < 0.76) || r >= 0.95 ? 1 : 0);
+    }
+    pairs[2 * e] = Math.imul(u, 0x9e3779b1) & mask;
+    pairs[2 * e + 1] = Math.imul(v, 0x9e3779b1) & mask;
+  }
+  return pairs;
+}
+
+/** Dense ids in ascending order of original id (ids that never occur dropped), duplicates and self-loops kept. */
+function graphFromPairs(pairs: Uint32Array): Graph {
+  let max = 0;
+  for (let i = 0; i < pairs.length; i++) if (pairs[i] > max) max = pairs[i];
+  const map = new Int32Array(max + 1).fill(-1);
+  for (let i = 0; i < pairs.length; i++) map[pairs[i]] = 0;
+  let n = 0;
+  for (let i = 0; i <= max; i++) if (map[i] === 0) map[i] = n++;
+  const m = pairs.length / 2;
+  const src = new Uint32Array(m);
+  const dst = new Uint32Array(m);
+  for (let e = 0; e < m; e++) {
+    src[e] = map[pairs[2 * e]];
+    dst[e] = map[pairs[2 * e + 1]];
+  }
+  return fromDenseEdges(n, src, dst);
+}
+
+const median = (a: number[]) => {
+  const s = [...a].sort((x, y) => x - y);
+  return s.length % 2 ? s[s.length >> 1] : (s[s.length / 2 - 1] + s[s.length / 2]) / 2;
+};
+
+function runRef(): number | null {
+  if (!opt.ref || !opt["ref-edges"]) return null;
+  const out = execFileSync(opt.ref, ["-t", "2", "-i", opt.iterations, "-e", "0", opt["ref-edges"]], { encoding: "utf8" });
+  const ms = /iter_s_median=([\d.]+)/.exec(out);
+  return ms ? Number(ms[1]) * 1000 : null;
+}
+
+const t0 = performance.now();
+const pairs = opt.edges ? new Uint32Array(readFileSync(opt.edges).buffer) : rmatPairs(Number(opt.scale));
+const g = graphFromPairs(pairs);
+console.log(`graph n=${g.n} m=${g.m} built in ${((performance.now() - t0) / 1000).toFixed(1)} s`);
+const iterations = Number(opt.iterations);
+const params: RankParams = {
+  damping: 0.85,
+  tolerance: 0,
+  maxIterations: iterations,
+  dangling: "uniform",
+  teleport: { kind: "uniform" },
+  weighted: false,
+};
+const refMs: number[] = [];
+for (const threads of opt.threads.split(",").map(Number)) {
+  const pool = new RankPool({ threads });
+  for (const kernel of opt.kernels.split(",") as KernelKind[]) {
+    const perIter: number[] = [];
+    for (let rep = 0; rep < Number(opt.reps); rep++) {
+      const ms: number[] = [];
+      await rank(g, { ...params, threads, shards: threads }, { pool, kernel, onIteration: (p) => void ms.push(p.elapsedMs) });
+      perIter.push(median(ms));
+      const ref = threads === 2 ? runRef() : null;
+      if (ref !== null) refMs.push(ref);
+    }
+    const med = median(perIter);
+    const name = `pull:${kernel}:threads=${threads}:n=${g.n}`;
+    console.log(`${name.padEnd(36)} ${med.toFixed(2)} ms/iter  ${(g.m / med / 1e3).toFixed(0)} M edges/s  (reps ${perIter.map((x) => x.toFixed(1)).join(" ")})`);
+  }
+  await pool.close();
+}
+if (refMs.length) console.log(`C reference, 2 threads, alternated: ${median(refMs).toFixed(2)} ms/iter (${refMs.map((x) => x.toFixed(1)).join(" ")})`);
+console.log(`peak RSS ${(process.resourceUsage().maxRSS / 1024).toFixed(0)} MiB, ${iterations} iterations per run`);
