@@ -1,0 +1,159 @@
+// From parsed parts to canonical node ids: node c (0..n-1) is the c-th smallest original id (integers by value, strings
+// by UTF-8 bytes). Numbering by id rather than by first appearance makes the graph a function of the set of lines,
+// whatever their order or the number of parse threads.
+// Raw parts (every id an integer below 2^32) use a direct table indexed by id when the id range is small enough;
+// otherwise ids go through hash tables: one per part during the parse, merged here.
+
+import type { NodeIds } from "../core/graph";
+import { BytesTable } from "./bytes-table";
+import type { IdMode, ParsedPart } from "./line-parser";
+import { U64Table } from "./u64-table";
+
+/** Edges of one part; the canonical id of a stored value x is map[x]. */
+export interface EdgeSegment {
+  src: Uint32Array;
+  dst: Uint32Array;
+  weight: Float64Array | null;
+  map: Uint32Array;
+}
+
+export interface CanonicalEdges {
+  n: number;
+  ids: NodeIds;
+  segments: EdgeSegment[];
+}
+
+export interface Numbering {
+  n: number;
+  /** Original ids in canonical order. */
+  ids: NodeIds;
+  /** maps[k][x]: canonical id of value x stored by part k. */
+  maps: Uint32Array[];
+  /** How ids were numbered: a direct table indexed by id value, or hash tables. */
+  idPath: "direct" | "hash";
+}
+
+/** Largest id range numbered with a direct table: 5 bytes per possible id value. */
+export function directLimit(edges: number): number {
+  return Math.max(1 << 24, Math.min(8 * edges, 2 ** 31));
+}
+
+/** The mode every part must be in before assembling: the most general one any part reached. */
+export function commonMode(modes: IdMode[]): IdMode {
+  if (modes.includes("string")) return "string";
+  if (modes.includes("int")) return "int";
+  return "raw";
+}
+
+/** Canonical numbering for parts that are all "raw", all "int" or all "string". */
+export function numberNodes(parts: ParsedPart[]): Numbering {
+  const mode = commonMode(parts.map((p) => p.mode));
+  if (parts.some((p) => p.mode !== mode)) throw new Error("numberNodes: parts must share one id mode");
+  if (mode === "raw") return assembleRaw(parts);
+  if (mode === "int") return assembleInt(parts);
+  return assembleStrings(parts);
+}
+
+function assembleRaw(parts: ParsedPart[]): Numbering {
+  const maxId = Math.max(-1, ...parts.map((p) => p.maxId));
+  const seen = new Uint8Array(maxId + 1);
+  for (const p of parts) {
+    const { src, dst } = p;
+    for (let i = 0; i < src.length; i++) {
+      seen[src[i]] = 1;
+      seen[dst[i]] = 1;
+    }
+  }
+  let n = 0;
+  for (let x = 0; x <= maxId; x++) n += seen[x];
+  const map = new Uint32Array(maxId + 1);
+  const ids = new BigUint64Array(n);
+  let c = 0;
+  for (let x = 0; x <= maxId; x++) {
+    if (seen[x] === 0) continue;
+    map[x] = c;
+    ids[c++] = BigInt(x);
+  }
+  return {
+    n,
+    ids: { kind: "integer", ids },
+    maps: parts.map(() => map),
+    idPath: "direct",
+  };
+}
+
+function assembleInt(parts: ParsedPart[]): Numbering {
+  const total = parts.reduce((s, p) => s + p.nodes, 0);
+  const table = new U64Table(Math.max(1024, Math.min(total, 1 << 26)));
+  const globalOf = parts.map((p) => {
+    const g = new Uint32Array(p.nodes);
+    const lo = p.keysLo as Uint32Array;
+    const hi = p.keysHi as Uint32Array;
+    for (let i = 0; i < p.nodes; i++) g[i] = table.idOf(lo[i], hi[i]);
+    return g;
+  });
+  const n = table.size;
+  const sorted = table.toBigIds().sort();
+  const rank = new Uint32Array(n);
+  for (let c = 0; c < n; c++) {
+    const k = sorted[c];
+    rank[table.find(Number(k & 0xffff_ffffn), Number(k >> 32n))] = c;
+  }
+  return {
+    n,
+    ids: { kind: "integer", ids: sorted },
+    maps: globalOf.map((g) => compose(rank, g)),
+    idPath: "hash",
+  };
+}
+
+function assembleStrings(parts: ParsedPart[]): Numbering {
+  const total = parts.reduce((s, p) => s + p.nodes, 0);
+  const bytesTotal = parts.reduce((s, p) => s + (p.keyBytes?.length ?? 0), 0);
+  const table = new BytesTable(Math.max(1024, total), bytesTotal);
+  const globalOf = parts.map((p) => {
+    const g = new Uint32Array(p.nodes);
+    const bytes = p.keyBytes as Uint8Array;
+    const off = p.keyOffsets as Uint32Array;
+    for (let i = 0; i < p.nodes; i++) g[i] = table.idOf(bytes, off[i], off[i + 1]);
+    return g;
+  });
+  const n = table.size;
+  const { bytes, offsets } = table.export();
+  const order = new Uint32Array(n);
+  for (let i = 0; i < n; i++) order[i] = i;
+  order.sort((a, b) => compareBytes(bytes, offsets[a], offsets[a + 1], offsets[b], offsets[b + 1]));
+  const rank = new Uint32Array(n);
+  const outOffsets = new Uint32Array(n + 1);
+  const outBytes = new Uint8Array(bytes.length);
+  for (let c = 0; c < n; c++) {
+    const g = order[c];
+    rank[g] = c;
+    const len = offsets[g + 1] - offsets[g];
+    outBytes.set(bytes.subarray(offsets[g], offsets[g + 1]), outOffsets[c]);
+    outOffsets[c + 1] = outOffsets[c] + len;
+  }
+  return {
+    n,
+    ids: { kind: "string", bytes: outBytes, offsets: outOffsets },
+    maps: globalOf.map((g) => compose(rank, g)),
+    idPath: "hash",
+  };
+}
+
+function compose(outer: Uint32Array, inner: Uint32Array): Uint32Array {
+  const r = new Uint32Array(inner.length);
+  for (let i = 0; i < inner.length; i++) r[i] = outer[inner[i]];
+  return r;
+}
+
+export function compareBytes(buf: Uint8Array, as: number, ae: number, bs: number, be: number): number {
+  const la = ae - as;
+  const lb = be - bs;
+  const l = Math.min(la, lb);
+  for (let i = 0; i < l; i++) {
+    const d = buf[as + i] - buf[bs + i];
+    if (d !== 0) return d;
+  }
+  return la - lb;
+}

@@ -1,0 +1,263 @@
+// Ingest an edge-list file into a Graph: read chunks of whole lines (hashing the raw bytes), parse them on worker
+// threads (or this thread for small inputs), restore global line numbers and file order, number nodes canonically,
+// then build the graph. Peak memory is about 2 × the parsed edge arrays (8 bytes a line, +8 with weights) plus the
+// final graph; see the benchmark for measured figures.
+
+import { availableParallelism } from "node:os";
+import type { Graph } from "../core/graph";
+import { buildGraph } from "../graph-store/build";
+import { commonMode, directLimit, numberNodes, type CanonicalEdges, type EdgeSegment } from "./assemble";
+import { describeBadLine, IngestError, type BadLine } from "./errors";
+import { LocalLane, WorkerLane, type ChunkAck, type Lane } from "./lanes";
+import { BAD_LINE_SAMPLES, type IdMode, type ParsedPart, type ParserConfig } from "./line-parser";
+import { resolveGraphOptions, resolveLimits, type GraphOptions, type IngestLimits } from "./options";
+import { sniffFormat } from "./sniff";
+import { ChunkReader } from "./source";
+import { degreeStats, type GraphStats } from "./stats";
+
+export interface IngestProgress {
+  phase: "parse" | "build";
+  bytesRead: number;
+  totalBytes: number;
+  rows: number;
+}
+
+export interface IngestRun {
+  limits?: Partial<IngestLimits>;
+  /** Renumber nodes hubs first (default true). */
+  renumber?: boolean;
+  onProgress?: (p: IngestProgress) => void;
+  /** Number ids through hash tables even when a direct table would do (tests compare both paths). */
+  hashIds?: boolean;
+}
+
+export interface IngestResult {
+  graph: Graph;
+  stats: GraphStats;
+  /** The first bad lines (at most 100), by line number. */
+  badLines: BadLine[];
+  options: GraphOptions;
+  timings: { parseMs: number; numberMs: number; buildMs: number; totalMs: number };
+}
+
+const MAX_INFLIGHT = 2;
+
+export async function ingestEdgeFile(path: string, options: Partial<GraphOptions> = {}, run: IngestRun = {}): Promise<IngestResult> {
+  const opts = resolveGraphOptions(options);
+  const limits = resolveLimits(run.limits);
+  const t0 = performance.now();
+  const reader = await ChunkReader.open(path, limits);
+  let lanes: Lane[] = [];
+  try {
+    const first = await reader.next();
+    if (reader.size === 0 || !first) throw new IngestError("empty-file", path, `${path}: the file is empty`);
+    const sample = new Uint8Array(first.buffer, 0, first.len);
+    const format = sniffFormat(sample, opts, limits.sampleLines);
+    const threads = limits.threads > 0 ? limits.threads : Math.min(8, availableParallelism());
+    const workerLanes = threads < 2 || reader.size < limits.parallelMinBytes ? 0 : reader.gzip ? 1 : threads;
+    const lineBytes = first.len / Math.max(1, countNewlines(sample));
+    const expectedLines = ((reader.gzip ? reader.size * 4 : reader.size) / lineBytes) * 1.03;
+    const cfg: ParserConfig = {
+      format,
+      keepWeights: opts.weighted,
+      maxFieldBytes: limits.maxFieldBytes,
+      maxBadLines: opts.maxBadLines,
+      atFileStart: false,
+      expectedLines: expectedLines / Math.max(1, workerLanes),
+      hashIds: run.hashIds,
+    };
+    lanes = workerLanes === 0 ? [new LocalLane(cfg)] : Array.from({ length: workerLanes }, () => new WorkerLane(cfg));
+
+    // Parse: each chunk goes to the least busy lane.
+    const acks: ChunkAck[] = [];
+    const laneOf: number[] = [];
+    const lastAck: Array<ChunkAck | null> = lanes.map(() => null);
+    const pending = new Set<Promise<void>>();
+    let failure: unknown = null;
+    let stop = false;
+    let rows = 0;
+    for (let chunk: typeof first | null = first; chunk && !stop && failure === null; chunk = await reader.next()) {
+      let li = leastBusy(lanes);
+      while (lanes[li].inflight >= MAX_INFLIGHT) {
+        await Promise.race(pending);
+        li = leastBusy(lanes);
+      }
+      laneOf[chunk.seq] = li;
+      const p: Promise<void> = lanes[li].send(chunk, chunk.seq === 0).then(
+        (ack) => {
+          acks[ack.seq] = ack;
+          const prev = lastAck[li];
+          if (!prev || prev.seq < ack.seq) lastAck[li] = ack;
+          reader.release(ack.buffer);
+          rows += ack.linesAfter - ack.linesBefore;
+          if (ack.stopped) stop = true;
+          run.onProgress?.({ phase: "parse", bytesRead: reader.bytesRead, totalBytes: reader.size, rows });
+        },
+        (e: unknown) => {
+          failure = e;
+        },
+      );
+      pending.add(p);
+      void p.finally(() => pending.delete(p));
+    }
+    await Promise.all(pending);
+    if (failure !== null) throw failure;
+
+    let mode: IdMode = commonMode(lastAck.flatMap((a) => (a ? [a.mode] : [])));
+    const totalEdges = acks.reduce((s, a) => s + (a.edgesAfter - a.edgesBefore), 0);
+    const maxId = Math.max(-1, ...lastAck.map((a) => a?.maxId ?? -1));
+    if (mode === "raw" && maxId + 1 > directLimit(totalEdges)) mode = "int";
+    const parts = await Promise.all(lanes.map((l) => l.finish(mode)));
+    const tParsed = performance.now();
+
+    const { badLines, counts } = reconcile(acks, laneOf, parts);
+    checkCounts(path, reader.size, counts, badLines, opts.maxBadLines);
+
+    run.onProgress?.({ phase: "build", bytesRead: reader.bytesRead, totalBytes: reader.size, rows: counts.lines });
+    const numbering = numberNodes(parts);
+    const segments: EdgeSegment[] = acks.map((a) => {
+      const k = laneOf[a.seq];
+      const part = parts[k];
+      return {
+        src: part.src.subarray(a.edgesBefore, a.edgesAfter),
+        dst: part.dst.subarray(a.edgesBefore, a.edgesAfter),
+        weight: part.weight ? part.weight.subarray(a.edgesBefore, a.edgesAfter) : null,
+        map: numbering.maps[k],
+      };
+    });
+    const canonical: CanonicalEdges = { n: numbering.n, ids: numbering.ids, segments };
+    const tNumbered = performance.now();
+    const { graph, report } = buildGraph(canonical, {
+      directed: opts.directed,
+      selfLoops: opts.selfLoops,
+      duplicates: opts.duplicates,
+      renumber: run.renumber ?? true,
+    });
+    const degrees = degreeStats(graph);
+    const tBuilt = performance.now();
+
+    const warnings: string[] = [];
+    if (opts.weighted && format.columns === 2) warnings.push("weighted was requested but the file has no weight column: every edge weighs 1");
+    if (!opts.weighted && format.columns === 3) warnings.push("the weight column was checked but not used (the graph is unweighted)");
+    if (format.idKind === "integer" && numbering.ids.kind === "string")
+      warnings.push("a non-integer id appeared after the sampled lines: all ids were treated as strings");
+    const stats: GraphStats = {
+      format: { ...format, idKind: numbering.ids.kind, gzip: reader.gzip },
+      lines: counts.lines,
+      rows: counts.dataRows,
+      commentLines: counts.commentLines,
+      blankLines: counts.blankLines,
+      headerLines: counts.headerLines,
+      badLines: counts.badLines,
+      nodes: graph.n,
+      edges: graph.m,
+      selfLoops: counts.selfLoops,
+      selfLoopsDropped: report.selfLoopsDropped,
+      duplicates: report.duplicatesMerged,
+      danglingNodes: degrees.danglingNodes,
+      idKind: numbering.ids.kind,
+      weight: format.columns === 3 && counts.dataRows > 0 ? { min: counts.weightMin, max: counts.weightMax } : null,
+      weighted: graph.weights !== null && opts.weighted,
+      inDegree: degrees.inDegree,
+      outDegree: degrees.outDegree,
+      maxInDegree: degrees.maxInDegree,
+      maxOutDegree: degrees.maxOutDegree,
+      fingerprint: reader.fingerprint(),
+      bytesRead: reader.bytesRead,
+      threads: Math.max(1, workerLanes),
+      idPath: numbering.idPath,
+      order: report.order,
+      warnings,
+    };
+    return {
+      graph,
+      stats,
+      badLines,
+      options: opts,
+      timings: {
+        parseMs: tParsed - t0,
+        numberMs: tNumbered - tParsed,
+        buildMs: tBuilt - tNumbered,
+        totalMs: tBuilt - t0,
+      },
+    };
+  } finally {
+    await Promise.all(lanes.map((l) => l.close()));
+    await reader.close();
+  }
+}
+
+function leastBusy(lanes: Lane[]): number {
+  let best = 0;
+  for (let i = 1; i < lanes.length; i++) if (lanes[i].inflight < lanes[best].inflight) best = i;
+  return best;
+}
+
+function countNewlines(buf: Uint8Array): number {
+  let n = 0;
+  for (let p = buf.indexOf(10); p >= 0; p = buf.indexOf(10, p + 1)) n++;
+  return n;
+}
+
+type Counts = ParsedPart["counts"];
+
+/** Sum the parts' counts and turn each part's local bad-line numbers into file line numbers. */
+function reconcile(acks: ChunkAck[], laneOf: number[], parts: ParsedPart[]) {
+  const lineStart = new Float64Array(acks.length + 1);
+  for (let s = 0; s < acks.length; s++) lineStart[s + 1] = lineStart[s] + (acks[s].linesAfter - acks[s].linesBefore);
+  const byLane: ChunkAck[][] = parts.map(() => []);
+  for (const a of acks) byLane[laneOf[a.seq]].push(a);
+  const badLines: BadLine[] = [];
+  parts.forEach((part, k) => {
+    for (const b of part.bad) {
+      const a = byLane[k].find((x) => b.line > x.linesBefore && b.line <= x.linesAfter);
+      if (a) badLines.push({ ...b, line: lineStart[a.seq] + (b.line - a.linesBefore) });
+    }
+  });
+  badLines.sort((x, y) => x.line - y.line);
+  badLines.length = Math.min(badLines.length, BAD_LINE_SAMPLES);
+  const counts: Counts = {
+    lines: 0,
+    dataRows: 0,
+    commentLines: 0,
+    blankLines: 0,
+    headerLines: 0,
+    badLines: 0,
+    selfLoops: 0,
+    weightMin: Infinity,
+    weightMax: -Infinity,
+  };
+  for (const p of parts) {
+    const c = p.counts;
+    counts.lines += c.lines;
+    counts.dataRows += c.dataRows;
+    counts.commentLines += c.commentLines;
+    counts.blankLines += c.blankLines;
+    counts.headerLines += c.headerLines;
+    counts.badLines += c.badLines;
+    counts.selfLoops += c.selfLoops;
+    counts.weightMin = Math.min(counts.weightMin, c.weightMin);
+    counts.weightMax = Math.max(counts.weightMax, c.weightMax);
+  }
+  return { badLines, counts };
+}
+
+function checkCounts(path: string, size: number, c: Counts, bad: BadLine[], maxBadLines: number): void {
+  if (c.badLines > maxBadLines) {
+    const first = bad[0];
+    const more = c.badLines > 1 ? `; ${c.badLines} bad lines seen` : "";
+    throw new IngestError(
+      "too-many-bad-lines",
+      path,
+      `${path}: ${describeBadLine(first)}${more} (at most ${maxBadLines} allowed)`,
+      first,
+      bad,
+      c.badLines,
+    );
+  }
+  if (c.dataRows > 0) return;
+  if (size === 0) throw new IngestError("empty-file", path, `${path}: the file is empty`);
+  if (c.headerLines > 0 && c.badLines === 0) throw new IngestError("header-only", path, `${path}: only a header row, no edges`);
+  if (c.badLines === 0) throw new IngestError("no-data", path, `${path}: no edges (only comments or blank lines)`);
+  throw new IngestError("no-edges", path, `${path}: no valid edge lines (${c.badLines} bad lines skipped)`, bad[0], bad, c.badLines);
+}

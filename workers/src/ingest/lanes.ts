@@ -1,0 +1,130 @@
+// Parse lanes: where chunks of lines get parsed. A worker lane runs a LineParser on its own thread; the local lane runs
+// it on the calling thread. Both answer every chunk with an ack (its line and edge ranges, so that line numbers and
+// file order can be restored) and hand over one ParsedPart at the end.
+
+import type { Worker } from "node:worker_threads";
+import { LineParser, type IdMode, type ParsedPart, type ParserConfig } from "./line-parser";
+import type { Chunk } from "./source";
+import { startTsWorker } from "./ts-worker";
+
+export interface ChunkAck {
+  seq: number;
+  buffer: ArrayBuffer;
+  linesBefore: number;
+  linesAfter: number;
+  edgesBefore: number;
+  edgesAfter: number;
+  badLines: number;
+  mode: IdMode;
+  maxId: number;
+  stopped: boolean;
+}
+
+export type LaneRequest =
+  | { type: "init"; cfg: ParserConfig }
+  | { type: "chunk"; seq: number; buffer: ArrayBuffer; len: number; first: boolean }
+  | { type: "finish"; mode: IdMode };
+
+export type LaneReply = { type: "ack"; ack: ChunkAck } | { type: "part"; part: ParsedPart } | { type: "error"; message: string };
+
+export interface Lane {
+  /** Chunks sent and not yet acknowledged. */
+  inflight: number;
+  send(chunk: Chunk, first: boolean): Promise<ChunkAck>;
+  finish(mode: IdMode): Promise<ParsedPart>;
+  close(): Promise<void>;
+}
+
+/** Apply one chunk to a parser and describe what it did. */
+export function parseChunk(parser: LineParser, seq: number, buffer: ArrayBuffer, len: number, first: boolean): ChunkAck {
+  const before = parser.counts;
+  const edgesBefore = parser.edgeCount;
+  if (first) parser.beginFile();
+  parser.feed(new Uint8Array(buffer, 0, len));
+  const after = parser.counts;
+  return {
+    seq,
+    buffer,
+    linesBefore: before.lines,
+    linesAfter: after.lines,
+    edgesBefore,
+    edgesAfter: parser.edgeCount,
+    badLines: after.badLines,
+    mode: parser.mode,
+    maxId: parser.maxId,
+    stopped: parser.stopped,
+  };
+}
+
+export class LocalLane implements Lane {
+  inflight = 0;
+  private readonly parser: LineParser;
+  constructor(cfg: ParserConfig) {
+    this.parser = new LineParser(cfg);
+  }
+  async send(chunk: Chunk, first: boolean): Promise<ChunkAck> {
+    return parseChunk(this.parser, chunk.seq, chunk.buffer, chunk.len, first);
+  }
+  async finish(mode: IdMode): Promise<ParsedPart> {
+    this.parser.promote(mode);
+    return this.parser.finish();
+  }
+  async close(): Promise<void> {}
+}
+
+export class WorkerLane implements Lane {
+  inflight = 0;
+  private readonly worker: Worker;
+  private readonly waiting: Array<{ resolve: (r: LaneReply) => void; reject: (e: Error) => void }> = [];
+  private failure: Error | null = null;
+
+  constructor(cfg: ParserConfig) {
+    this.worker = startTsWorker(new URL("./parse-worker.ts", import.meta.url));
+    this.worker.on("message", (r: LaneReply) => {
+      const w = this.waiting.shift();
+      if (!w) return;
+      if (r.type === "error") w.reject(new Error(r.message));
+      else w.resolve(r);
+    });
+    this.worker.on("error", (e) => this.fail(e));
+    this.worker.on("exit", (code) => {
+      if (this.waiting.length > 0) this.fail(new Error(`parse worker exited (code ${code})`));
+    });
+    this.post({ type: "init", cfg });
+  }
+
+  async send(chunk: Chunk, first: boolean): Promise<ChunkAck> {
+    this.inflight++;
+    const reply = await this.request({ type: "chunk", seq: chunk.seq, buffer: chunk.buffer, len: chunk.len, first }, [chunk.buffer]);
+    this.inflight--;
+    if (reply.type !== "ack") throw new Error("parse worker: expected an ack");
+    return reply.ack;
+  }
+
+  async finish(mode: IdMode): Promise<ParsedPart> {
+    const reply = await this.request({ type: "finish", mode });
+    if (reply.type !== "part") throw new Error("parse worker: expected a part");
+    return reply.part;
+  }
+
+  async close(): Promise<void> {
+    await this.worker.terminate();
+  }
+
+  private post(msg: LaneRequest, transfer: ArrayBuffer[] = []): void {
+    this.worker.postMessage(msg, transfer);
+  }
+
+  private request(msg: LaneRequest, transfer: ArrayBuffer[] = []): Promise<LaneReply> {
+    if (this.failure) return Promise.reject(this.failure);
+    return new Promise((resolve, reject) => {
+      this.waiting.push({ resolve, reject });
+      this.post(msg, transfer);
+    });
+  }
+
+  private fail(e: Error): void {
+    this.failure = e;
+    for (const w of this.waiting.splice(0)) w.reject(e);
+  }
+}
