@@ -20,6 +20,25 @@ async function signOut(page: Page): Promise<void> {
   await page.waitForURL(/\/sign-in$/);
 }
 
+/** Opens the newest captured mail to `to` in the Outbox page; mail arrives through the fake SMTP server a moment late. */
+async function openMail(page: Page, to: string) {
+  await page.getByRole("navigation", { name: "Main" }).getByRole("link", { name: "Outbox" }).click();
+  await page.getByRole("heading", { level: 1, name: "Outbox" }).waitFor();
+  const captured = page.getByRole("list", { name: "Captured e-mails" }).getByRole("link").filter({ hasText: to });
+  await expect
+    .poll(
+      async () => {
+        if ((await captured.count()) > 0) return true;
+        await page.getByRole("button", { name: /Refresh|Check again/ }).click();
+        return false;
+      },
+      { timeout: 15_000, interval: 500 },
+    )
+    .toBe(true);
+  await captured.first().click();
+  return page.getByRole("article");
+}
+
 describe("portal shell in a real browser", () => {
   let server: RunningServer;
   let browser: Browser;
@@ -82,22 +101,7 @@ describe("portal shell in a real browser", () => {
     await page.getByRole("table", { name: "Pending invitations" }).getByRole("row").filter({ hasText: invitee.email }).waitFor();
     await screenshot(page, "04-team-invited");
 
-    await page.getByRole("navigation", { name: "Main" }).getByRole("link", { name: "Outbox" }).click();
-    await page.waitForURL(`${server.url}/outbox`);
-    const captured = page.getByRole("list", { name: "Captured e-mails" }).getByRole("link").filter({ hasText: invitee.email });
-    // Mail reaches the outbox through the fake SMTP server a moment after the API answers.
-    await expect
-      .poll(
-        async () => {
-          if ((await captured.count()) > 0) return true;
-          await page.getByRole("button", { name: "Refresh" }).click();
-          return false;
-        },
-        { timeout: 15_000, interval: 500 },
-      )
-      .toBe(true);
-    await captured.first().click();
-    const message = page.getByRole("article");
+    const message = await openMail(page, invitee.email);
     expect(await message.textContent()).toContain(invitee.email);
     const link = message.getByRole("link").filter({ hasText: "/invite/" });
     const href = await link.first().getAttribute("href");
@@ -206,6 +210,40 @@ describe("portal shell in a real browser", () => {
     expect(await focused()).toBe("Graphs");
     await screenshot(page, "15-keyboard-focus");
 
+    expect(browser.pageErrors).toEqual([]);
+  });
+
+  it("resets a forgotten password through the e-mailed link", async () => {
+    const newPassword = "lighthouse-keeper-7";
+    await signOut(page);
+    await page.getByRole("link", { name: "Forgot your password?" }).click();
+    await page.getByLabel("E-mail").fill("engineer@kestrel.example");
+    await page.getByRole("button", { name: "Send reset link" }).click();
+    await page.getByRole("status").filter({ hasText: "reset link is on its way" }).waitFor();
+    await screenshot(page, "16-forgot-password");
+
+    await signIn(page, server.url, "admin@kestrel.example", DEMO_PASSWORD);
+    await page.waitForURL(`${server.url}/`);
+    const message = await openMail(page, "engineer@kestrel.example");
+    const href = (await message.getByRole("link").filter({ hasText: "/reset/" }).first().getAttribute("href")) ?? "";
+    expect(href).toMatch(new RegExp(`^${server.url}/reset/`));
+    await signOut(page);
+    await page.goto(href);
+
+    await page.getByRole("button", { name: "Save password" }).click();
+    expect(await page.getByText("Use at least 10 characters.").count()).toBe(1);
+    await page.getByLabel("New password", { exact: true }).fill(newPassword);
+    await page.getByLabel("Repeat new password").fill(newPassword);
+    await screenshot(page, "17-reset-password");
+    await page.getByRole("button", { name: "Save password" }).click();
+    await page.waitForURL(/\/sign-in$/);
+    await page.getByRole("status").filter({ hasText: "Password saved" }).waitFor();
+
+    await signIn(page, server.url, "engineer@kestrel.example", DEMO_PASSWORD);
+    expect(await page.getByRole("alert").textContent()).toContain(ERRORS.invalidCredentials.message);
+    await signIn(page, server.url, "engineer@kestrel.example", newPassword);
+    await page.waitForURL(`${server.url}/`);
+    expect(await page.getByRole("group", { name: "Signed-in user" }).textContent()).toContain("Engineer");
     expect(browser.pageErrors).toEqual([]);
   });
 });
