@@ -1,0 +1,67 @@
+// Renumbering nodes for locality changes no score: results map back through the carried ids.
+import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { degreeOrder, relabel } from "../../workers/src/core/relabel";
+import { rank, RankPool } from "../../workers/src/engine/rank";
+import { applyPolicies, PARAMS, randomEdges, toGraph } from "./rank-test-graphs";
+
+let pool: RankPool;
+beforeAll(() => {
+  pool = new RankPool({ threads: 2 });
+});
+afterAll(() => pool.close());
+
+describe("relabel", () => {
+  const g = toGraph(applyPolicies(randomEdges(55, 9000, 4), true));
+
+  it("orders nodes by descending degree, ties by ascending id", () => {
+    for (const by of ["out", "in"] as const) {
+      const order = degreeOrder(g, by);
+      const deg = (v: number) =>
+        by === "in" ? g.inOffsets[v + 1] - g.inOffsets[v] : g.sources.reduce((s, u) => s + (u === v ? 1 : 0), 0);
+      const degs = Array.from(order.subarray(0, 300), deg);
+      for (let i = 1; i < degs.length; i++) {
+        expect(degs[i]).toBeLessThanOrEqual(degs[i - 1]);
+        if (degs[i] === degs[i - 1]) expect(order[i]).toBeGreaterThan(order[i - 1]);
+      }
+      expect(new Set(order).size).toBe(g.n);
+    }
+  });
+
+  it("keeps the graph: same edges, weights, out-weights and ids under the new names", () => {
+    const order = degreeOrder(g, "out");
+    const r = relabel(g, order);
+    expect(r.m).toBe(g.m);
+    const newId = new Uint32Array(g.n);
+    order.forEach((v, i) => (newId[v] = i));
+    const edges = (x: typeof g, name: (v: number) => number) => {
+      const out: string[] = [];
+      for (let v = 0; v < x.n; v++) {
+        for (let e = x.inOffsets[v]; e < x.inOffsets[v + 1]; e++) out.push(`${name(x.sources[e])}>${name(v)}:${x.weights?.[e]}`);
+      }
+      return out.sort();
+    };
+    expect(edges(r, (v) => v)).toEqual(edges(g, (v) => newId[v]));
+    for (let i = 0; i < g.n; i++) {
+      expect(r.outWeight[i]).toBe(g.outWeight[order[i]]);
+      if (r.ids.kind === "integer" && g.ids.kind === "integer") expect(r.ids.ids[i]).toBe(g.ids.ids[order[i]]);
+      const list = r.sources.subarray(r.inOffsets[i], r.inOffsets[i + 1]);
+      for (let k = 1; k < list.length; k++) expect(list[k]).toBeGreaterThanOrEqual(list[k - 1]);
+    }
+  });
+
+  it("gives the same scores (up to summation order) for every original id", async () => {
+    const order = degreeOrder(g, "in");
+    const a = await rank(g, { ...PARAMS, weighted: true, tolerance: 1e-13 }, { pool });
+    const b = await rank(relabel(g, order), { ...PARAMS, weighted: true, tolerance: 1e-13 }, { pool });
+    let worst = 0;
+    order.forEach((v, i) => (worst = Math.max(worst, Math.abs(b.scores[i] - a.scores[v]) / a.scores[v])));
+    expect(worst).toBeLessThan(1e-12);
+  });
+
+  it("rejects an order that is not a permutation", () => {
+    const order = degreeOrder(g, "out");
+    order[5] = order[6];
+    expect(() => relabel(g, order)).toThrow(/permutation/);
+    expect(() => relabel(g, new Uint32Array(3))).toThrow(/order\.length/);
+  });
+});
