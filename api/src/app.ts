@@ -10,6 +10,7 @@ import { mountRoutes } from "./http/mount";
 import type { RouteDef } from "./http/route";
 import { createSessionLayer } from "./http/session";
 import { AppError, ERRORS } from "./lib/errors";
+import { redactUrl } from "./lib/logger";
 import { ROUTES } from "./routes";
 
 export interface BuiltApp {
@@ -42,7 +43,7 @@ export function createApp(deps: AppDeps, routes: readonly RouteDef[] = ROUTES): 
       logger: deps.logger,
       autoLogging: { ignore: (req) => req.url === "/api/health" },
       serializers: {
-        req: (req: { id: unknown; method: string; url: string }) => ({ id: req.id, method: req.method, url: req.url }),
+        req: (req: { id: unknown; method: string; url: string }) => ({ id: req.id, method: req.method, url: redactUrl(req.url) }),
         res: (res: { statusCode: number }) => ({ statusCode: res.statusCode }),
       },
       customLogLevel: (_req, res, error) => (error || res.statusCode >= 500 ? "error" : res.statusCode >= 400 ? "warn" : "info"),

@@ -50,7 +50,7 @@ function handlerFor(route: RouteDef, deps: AppDeps): RequestHandler {
 /** Mounts every route of the table: role check, then CSRF, then route middleware, then the parsed handler. */
 export function mountRoutes(router: Router, routes: readonly RouteDef[], deps: AppDeps): void {
   for (const route of routes) {
-    if (route.method !== "get" && route.audit === undefined) {
+    if (!["get", "head", "options"].includes(route.method) && route.audit === undefined) {
       throw new Error(`${route.method.toUpperCase()} ${route.path} must declare how it is audited`);
     }
     const chain: RequestHandler[] = [];

@@ -5,7 +5,7 @@ import type { AppDeps } from "../deps";
 import type { Principal } from "./principal";
 
 export type Access = "public" | Role;
-export type Method = "get" | "post" | "put" | "patch" | "delete";
+export type Method = "get" | "head" | "options" | "post" | "put" | "patch" | "delete";
 
 type Schema = z.ZodType | undefined;
 type Parsed<S extends Schema> = S extends z.ZodType ? z.output<S> : undefined;

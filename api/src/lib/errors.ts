@@ -7,6 +7,7 @@ export interface ErrorSpec {
 /** Every error the API answers with. Codes are part of the public contract; messages are for people. */
 export const ERRORS = {
   validationFailed: { status: 400, code: "validation_failed", message: "The request is not valid." },
+  badRequest: { status: 400, code: "bad_request", message: "The request cannot be handled." },
   invalidJson: { status: 400, code: "invalid_json", message: "The request body is not valid JSON." },
   weakPassword: { status: 400, code: "weak_password", message: "The password does not meet the password policy." },
   unauthenticated: { status: 401, code: "unauthenticated", message: "Sign in first." },

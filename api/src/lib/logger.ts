@@ -1,4 +1,4 @@
-import { pino, type Logger } from "pino";
+import { pino, type DestinationStream, type Logger } from "pino";
 
 export type { Logger };
 
@@ -14,6 +14,14 @@ const REDACT = [
   "*.passwordHash",
 ];
 
-export function createLogger(level: string): Logger {
-  return pino({ level, redact: { paths: REDACT, censor: "[redacted]" }, base: { app: "stillpoint" } });
+export function createLogger(level: string, destination?: DestinationStream): Logger {
+  const options = { level, redact: { paths: REDACT, censor: "[redacted]" }, base: { app: "stillpoint" } };
+  return destination ? pino(options, destination) : pino(options);
+}
+
+// Invite and reset links carry their secret in the path.
+const SECRET_IN_PATH = /(\/api\/invites\/|\/api\/auth\/password-reset\/)[^/?#]+/g;
+
+export function redactUrl(url: string): string {
+  return url.replace(SECRET_IN_PATH, "$1[redacted]");
 }
