@@ -53,7 +53,9 @@ export class ConfigError extends Error {}
 
 /** Parses the environment once; every invalid variable is listed in one error. */
 export function loadConfig(env: NodeJS.ProcessEnv = process.env): Config {
-  const result = EnvSchema.safeParse(env);
+  // An empty variable counts as unset, as in most shells' `VAR= command` idiom.
+  const present = Object.fromEntries(Object.entries(env).filter(([, value]) => value !== undefined && value !== ""));
+  const result = EnvSchema.safeParse(present);
   if (!result.success) {
     const lines = result.error.issues.map((issue) => `  ${issue.path.join(".")}: ${issue.message}`);
     throw new ConfigError(`Invalid environment:\n${lines.join("\n")}`);
