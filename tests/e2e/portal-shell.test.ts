@@ -233,6 +233,7 @@ describe("portal shell in a real browser", () => {
     await page.getByRole("button", { name: "Save password" }).click();
     expect(await page.getByText("Use at least 10 characters.").count()).toBe(1);
     await page.getByLabel("New password", { exact: true }).fill(newPassword);
+    expect(await page.getByText("Use at least 10 characters.").count()).toBe(0);
     await page.getByLabel("Repeat new password").fill(newPassword);
     await screenshot(page, "17-reset-password");
     await page.getByRole("button", { name: "Save password" }).click();

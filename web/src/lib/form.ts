@@ -27,3 +27,11 @@ export function focusFirstError(form: HTMLFormElement, errors: FieldErrors): voi
     }
   }
 }
+
+/** The error of the field being edited is stale; drop it so the message does not contradict the input. */
+export function withoutEditedField(errors: FieldErrors, target: EventTarget): FieldErrors {
+  const name = target instanceof HTMLInputElement || target instanceof HTMLSelectElement ? target.name : "";
+  if (!name || !errors[name]) return errors;
+  const { [name]: _dropped, ...rest } = errors;
+  return rest;
+}

@@ -4,7 +4,7 @@ import { ErrorBanner } from "../../../components/ui/error-banner";
 import { TextField } from "../../../components/ui/field";
 import { Loading } from "../../../components/ui/loading";
 import { ROLE_LABELS, type Session } from "../../../lib/auth";
-import { focusFirstError, validate, type FieldErrors } from "../../../lib/form";
+import { focusFirstError, validate, withoutEditedField, type FieldErrors } from "../../../lib/form";
 import { AcceptInviteSchema, useAcceptInvite } from "../api/accept-invite";
 import { useInvite } from "../api/get-invite";
 
@@ -34,7 +34,7 @@ export function AcceptInviteForm({ token, onAccepted }: { token: string; onAccep
   }
 
   return (
-    <form noValidate onSubmit={handleSubmit} className="flex flex-col gap-4" aria-label="Accept the invitation">
+    <form noValidate onSubmit={handleSubmit} onInput={(event) => setErrors((current) => withoutEditedField(current, event.target))} className="flex flex-col gap-4" aria-label="Accept the invitation">
       <dl className="grid grid-cols-[auto_1fr] gap-x-4 gap-y-1 rounded-md bg-paper-sunken px-3 py-2.5 text-[0.8125rem]">
         <dt className="text-ink-muted">E-mail</dt>
         <dd className="truncate font-medium text-ink">{email}</dd>

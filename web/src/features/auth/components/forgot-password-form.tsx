@@ -2,7 +2,7 @@ import { useState, type FormEvent } from "react";
 import { Button } from "../../../components/ui/button";
 import { ErrorBanner, Notice } from "../../../components/ui/error-banner";
 import { TextField } from "../../../components/ui/field";
-import { focusFirstError, validate, type FieldErrors } from "../../../lib/form";
+import { focusFirstError, validate, withoutEditedField, type FieldErrors } from "../../../lib/form";
 import { PasswordResetRequestSchema, useRequestPasswordReset } from "../api/request-password-reset";
 
 export function ForgotPasswordForm() {
@@ -30,7 +30,7 @@ export function ForgotPasswordForm() {
   }
 
   return (
-    <form noValidate onSubmit={handleSubmit} className="flex flex-col gap-4" aria-label="Request a password reset">
+    <form noValidate onSubmit={handleSubmit} onInput={(event) => setErrors((current) => withoutEditedField(current, event.target))} className="flex flex-col gap-4" aria-label="Request a password reset">
       {request.isError ? <ErrorBanner error={request.error} /> : null}
       <TextField label="E-mail" name="email" type="email" autoComplete="username" error={errors.email} required autoFocus />
       <Button type="submit" variant="primary" busy={request.isPending} className="self-end">

@@ -3,7 +3,7 @@ import { z } from "zod";
 import { Button } from "../../../components/ui/button";
 import { ErrorBanner } from "../../../components/ui/error-banner";
 import { TextField } from "../../../components/ui/field";
-import { focusFirstError, validate, type FieldErrors } from "../../../lib/form";
+import { focusFirstError, validate, withoutEditedField, type FieldErrors } from "../../../lib/form";
 import { PasswordSchema, useResetPassword } from "../api/reset-password";
 
 const ResetFormSchema = z
@@ -28,7 +28,7 @@ export function ResetPasswordForm({ token, onSuccess }: { token: string; onSucce
   }
 
   return (
-    <form noValidate onSubmit={handleSubmit} className="flex flex-col gap-4" aria-label="Choose a new password">
+    <form noValidate onSubmit={handleSubmit} onInput={(event) => setErrors((current) => withoutEditedField(current, event.target))} className="flex flex-col gap-4" aria-label="Choose a new password">
       {reset.isError ? <ErrorBanner error={reset.error} /> : null}
       <TextField
         label="New password"

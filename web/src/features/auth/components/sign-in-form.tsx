@@ -5,7 +5,7 @@ import { ErrorBanner } from "../../../components/ui/error-banner";
 import { TextField } from "../../../components/ui/field";
 import { paths } from "../../../config/paths";
 import type { Session } from "../../../lib/auth";
-import { focusFirstError, validate, type FieldErrors } from "../../../lib/form";
+import { focusFirstError, validate, withoutEditedField, type FieldErrors } from "../../../lib/form";
 import { SignInRequestSchema, useSignIn } from "../api/sign-in";
 
 export function SignInForm({ defaultEmail = "", onSuccess }: { defaultEmail?: string; onSuccess: (session: Session) => void }) {
@@ -26,7 +26,7 @@ export function SignInForm({ defaultEmail = "", onSuccess }: { defaultEmail?: st
   }
 
   return (
-    <form noValidate onSubmit={handleSubmit} className="flex flex-col gap-4" aria-label="Sign in">
+    <form noValidate onSubmit={handleSubmit} onInput={(event) => setErrors((current) => withoutEditedField(current, event.target))} className="flex flex-col gap-4" aria-label="Sign in">
       {signIn.isError ? <ErrorBanner error={signIn.error} /> : null}
       <TextField
         label="E-mail"

@@ -3,7 +3,7 @@ import { Button } from "../../../components/ui/button";
 import { ErrorBanner, Notice } from "../../../components/ui/error-banner";
 import { SelectField, TextField } from "../../../components/ui/field";
 import { ROLE_OPTIONS } from "../../../lib/auth";
-import { focusFirstError, validate, type FieldErrors } from "../../../lib/form";
+import { focusFirstError, validate, withoutEditedField, type FieldErrors } from "../../../lib/form";
 import { CreateInviteSchema, useCreateInvite } from "../api/create-invite";
 
 export function InviteForm() {
@@ -32,7 +32,7 @@ export function InviteForm() {
   }
 
   return (
-    <form noValidate onSubmit={handleSubmit} aria-label="Invite a member" className="flex flex-col gap-3">
+    <form noValidate onSubmit={handleSubmit} onInput={(event) => setErrors((current) => withoutEditedField(current, event.target))} aria-label="Invite a member" className="flex flex-col gap-3">
       {create.isError ? <ErrorBanner error={create.error} title="The invitation was not sent" /> : null}
       {sentTo ? <Notice>Invitation sent to {sentTo}.</Notice> : null}
       <div className="flex flex-wrap items-start gap-3">

@@ -2,7 +2,7 @@ import { useState, type FormEvent } from "react";
 import { Button } from "../../../components/ui/button";
 import { ErrorBanner } from "../../../components/ui/error-banner";
 import { TextField } from "../../../components/ui/field";
-import { focusFirstError, validate, type FieldErrors } from "../../../lib/form";
+import { focusFirstError, validate, withoutEditedField, type FieldErrors } from "../../../lib/form";
 import { CreateTokenSchema, useCreateToken, type CreatedToken } from "../api/create-token";
 
 export function CreateTokenForm() {
@@ -31,7 +31,7 @@ export function CreateTokenForm() {
   return (
     <div className="flex flex-col gap-4">
       {created ? <NewTokenNotice token={created} onDismiss={() => setCreated(null)} /> : null}
-      <form noValidate onSubmit={handleSubmit} aria-label="Create an API token" className="flex flex-col gap-3">
+      <form noValidate onSubmit={handleSubmit} onInput={(event) => setErrors((current) => withoutEditedField(current, event.target))} aria-label="Create an API token" className="flex flex-col gap-3">
         {create.isError ? <ErrorBanner error={create.error} title="The token was not created" /> : null}
         <div className="flex flex-wrap items-start gap-3">
           <TextField
