@@ -3,29 +3,12 @@
 // file order can be restored) and hand over one ParsedPart at the end.
 
 import type { Worker } from "node:worker_threads";
+import { parseChunk, type ChunkAck, type LaneReply, type LaneRequest } from "./lane-protocol";
 import { LineParser, type IdMode, type ParsedPart, type ParserConfig } from "./line-parser";
 import type { Chunk } from "./source";
 import { startTsWorker } from "./ts-worker";
 
-export interface ChunkAck {
-  seq: number;
-  buffer: ArrayBuffer;
-  linesBefore: number;
-  linesAfter: number;
-  edgesBefore: number;
-  edgesAfter: number;
-  badLines: number;
-  mode: IdMode;
-  maxId: number;
-  stopped: boolean;
-}
-
-export type LaneRequest =
-  | { type: "init"; cfg: ParserConfig }
-  | { type: "chunk"; seq: number; buffer: ArrayBuffer; len: number; first: boolean }
-  | { type: "finish"; mode: IdMode };
-
-export type LaneReply = { type: "ack"; ack: ChunkAck } | { type: "part"; part: ParsedPart } | { type: "error"; message: string };
+export type { ChunkAck } from "./lane-protocol";
 
 export interface Lane {
   /** Chunks sent and not yet acknowledged. */
@@ -33,27 +16,6 @@ export interface Lane {
   send(chunk: Chunk, first: boolean): Promise<ChunkAck>;
   finish(mode: IdMode): Promise<ParsedPart>;
   close(): Promise<void>;
-}
-
-/** Apply one chunk to a parser and describe what it did. */
-export function parseChunk(parser: LineParser, seq: number, buffer: ArrayBuffer, len: number, first: boolean): ChunkAck {
-  const before = parser.counts;
-  const edgesBefore = parser.edgeCount;
-  if (first) parser.beginFile();
-  parser.feed(new Uint8Array(buffer, 0, len));
-  const after = parser.counts;
-  return {
-    seq,
-    buffer,
-    linesBefore: before.lines,
-    linesAfter: after.lines,
-    edgesBefore,
-    edgesAfter: parser.edgeCount,
-    badLines: after.badLines,
-    mode: parser.mode,
-    maxId: parser.maxId,
-    stopped: parser.stopped,
-  };
 }
 
 export class LocalLane implements Lane {

@@ -1,7 +1,7 @@
 // Worker thread entry of a parse lane (see lanes.ts).
 
 import { parentPort } from "node:worker_threads";
-import { parseChunk, type LaneReply, type LaneRequest } from "./lanes";
+import { parseChunk, type LaneReply, type LaneRequest } from "./lane-protocol";
 import { LineParser } from "./line-parser";
 
 const port = parentPort;

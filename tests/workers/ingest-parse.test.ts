@@ -1,0 +1,151 @@
+// Parsing edge-list files: formats, id kinds, headers, gzip, and the clear errors for files without edges.
+import { join } from "node:path";
+import { afterAll, describe, expect, it } from "vitest";
+import { IngestError } from "../../workers/src/ingest/errors";
+import { ingestEdgeFile } from "../../workers/src/ingest/ingest";
+import { edgeList, FIXTURES, nodeIds, outWeights, TempFiles } from "../fixtures/edges/edge-files";
+
+const files = new TempFiles();
+afterAll(() => files.remove());
+
+async function edgesOf(content: string | Uint8Array, options = {}, gzip = false) {
+  return ingestEdgeFile(files.write(content, undefined, gzip), options);
+}
+
+async function failure(content: string | Uint8Array, options = {}): Promise<IngestError> {
+  const path = files.write(content);
+  const err = await ingestEdgeFile(path, options).then(
+    () => null,
+    (e: unknown) => e,
+  );
+  expect(err).toBeInstanceOf(IngestError);
+  const e = err as IngestError;
+  expect(e.message).toContain(path);
+  return e;
+}
+
+describe("integer ids", () => {
+  it("keeps ids above 2^53 exact, up to 2^64 - 1", async () => {
+    const r = await edgesOf("9007199254740993 9007199254740992\n18446744073709551615 9007199254740993\n1 18446744073709551614\n");
+    expect(r.stats.idKind).toBe("integer");
+    expect(r.graph.ids.kind).toBe("integer");
+    expect(nodeIds(r.graph).sort()).toEqual(
+      ["1", "9007199254740992", "9007199254740993", "18446744073709551614", "18446744073709551615"].sort(),
+    );
+    expect(edgeList(r.graph)).toEqual(
+      ["9007199254740993>9007199254740992", "18446744073709551615>9007199254740993", "1>18446744073709551614"].sort(),
+    );
+  });
+
+  it("treats leading zeros as the same integer", async () => {
+    const r = await edgesOf("007 8\n7 9\n");
+    expect(nodeIds(r.graph).sort()).toEqual(["7", "8", "9"]);
+    expect(r.graph.m).toBe(2);
+  });
+
+  it("reads the citation fixture: % comments, CRLF, spaces, an id past 2^53", async () => {
+    const r = await ingestEdgeFile(join(FIXTURES, "tidal-citations.txt"));
+    expect(r.stats.format.delimiter).toBe(" ");
+    expect(r.stats.commentLines).toBe(1);
+    expect(r.stats.lines).toBe(6);
+    expect(edgeList(r.graph)).toEqual(["101>205", "101>317", "205>317", "317>101", "9007199254740993>101"]);
+  });
+});
+
+describe("string ids", () => {
+  it("keeps UTF-8 ids byte for byte, quoted CSV fields included", async () => {
+    const r = await ingestEdgeFile(join(FIXTURES, "kestrel-ferries.csv"), { weighted: true });
+    expect(r.stats.idKind).toBe("string");
+    expect(r.stats.format).toMatchObject({ delimiter: ",", header: true, columns: 3 });
+    expect(nodeIds(r.graph).sort()).toEqual(["Gannet Quay", "Puffin Sound", "Skerry Head", "Tern Harbour, North Pier", "Ørnholm Jetty"]);
+    expect(edgeList(r.graph)).toContain("Gannet Quay>Skerry Head:20");
+    expect(edgeList(r.graph)).toContain("Tern Harbour, North Pier>Puffin Sound:3.5");
+    expect(outWeights(r.graph)["Gannet Quay"]).toBe(27);
+    expect(r.stats.selfLoops).toBe(1);
+    expect(r.stats.duplicates).toBe(1);
+  });
+
+  it("unescapes doubled quotes inside a quoted field", async () => {
+    const r = await edgesOf('"The ""Kittiwake"" Café",Lighthouse\n');
+    expect(nodeIds(r.graph).sort()).toEqual(["Lighthouse", 'The "Kittiwake" Café']);
+  });
+
+  it("turns an integer file into a string-id file when a later id is not an integer", async () => {
+    const lines = Array.from({ length: 1500 }, (_, i) => `${i} ${i + 1}`);
+    lines.push("1500 harbour-master");
+    const r = await edgesOf(`${lines.join("\n")}\n`, {}, false);
+    expect(r.stats.idKind).toBe("string");
+    expect(r.stats.warnings.join(" ")).toMatch(/non-integer id/);
+    expect(r.graph.n).toBe(1502);
+    expect(edgeList(r.graph)).toContain("1500>harbour-master");
+    expect(edgeList(r.graph)).toContain("0>1");
+  });
+});
+
+describe("layout", () => {
+  it("accepts CRLF line ends and a UTF-8 byte order mark", async () => {
+    const r = await edgesOf(new Uint8Array([0xef, 0xbb, 0xbf, ...Buffer.from("1,2\r\n2,3\r\n3,1")]));
+    expect(edgeList(r.graph)).toEqual(["1>2", "2>3", "3>1"]);
+    expect(r.stats.format.delimiter).toBe(",");
+  });
+
+  it("detects a header row from its words and from non-integer ids above integer rows", async () => {
+    const a = await edgesOf("source\ttarget\n1\t2\n");
+    expect(a.stats.format.header).toBe(true);
+    expect(a.stats.headerLines).toBe(1);
+    const b = await edgesOf("citing,cited_by_x\n1,2\n2,3\n");
+    expect(b.stats.format.header).toBe(true);
+    expect(edgeList(b.graph)).toEqual(["1>2", "2>3"]);
+    const c = await edgesOf("1,2\n2,3\n");
+    expect(c.stats.format.header).toBe(false);
+  });
+
+  it("follows a stated header and delimiter", async () => {
+    const r = await edgesOf("10 20\n30 40\n", { header: true, delimiter: " " });
+    expect(edgeList(r.graph)).toEqual(["30>40"]);
+    const t = await edgesOf("a b\tc d\n", { delimiter: "\t" });
+    expect(edgeList(t.graph)).toEqual(["a b>c d"]);
+  });
+
+  it("reads gzip files (detected by magic bytes, not the name)", async () => {
+    const text = Array.from({ length: 5000 }, (_, i) => `${i}\t${(i * 7) % 5000}`).join("\n");
+    const plain = await edgesOf(text);
+    const gz = await edgesOf(text, {}, true);
+    expect(gz.stats.format.gzip).toBe(true);
+    expect(plain.stats.format.gzip).toBe(false);
+    expect(edgeList(gz.graph)).toEqual(edgeList(plain.graph));
+    expect(gz.stats.fingerprint).not.toBe(plain.stats.fingerprint);
+  });
+
+  it("fingerprints the raw bytes with sha256", async () => {
+    const { createHash } = await import("node:crypto");
+    const text = "1 2\n2 3\n";
+    const r = await edgesOf(text);
+    expect(r.stats.fingerprint).toBe(createHash("sha256").update(text).digest("hex"));
+    expect(r.stats.bytesRead).toBe(text.length);
+  });
+
+  it("keeps the weight range even when weights are not used", async () => {
+    const r = await edgesOf("1,2,0.25\n2,3,1e3\n3,1,7\n");
+    expect(r.stats.weight).toEqual({ min: 0.25, max: 1000 });
+    expect(r.graph.weights).toBeNull();
+    const w = await edgesOf("1,2,0.25\n2,3,1e3\n3,1,7\n", { weighted: true });
+    expect(edgeList(w.graph)).toEqual(["1>2:0.25", "2>3:1000", "3>1:7"]);
+  });
+});
+
+describe("files without edges", () => {
+  it("rejects an empty file", async () => {
+    expect((await failure("")).code).toBe("empty-file");
+  });
+  it("rejects a file of comments and blank lines", async () => {
+    const e = await failure("# nothing\n\n% here\n");
+    expect(e.code).toBe("no-data");
+    expect(e.message).toMatch(/only comments/);
+  });
+  it("rejects a header without rows", async () => {
+    const e = await failure("source,target\n");
+    expect(e.code).toBe("header-only");
+    expect(e.message).toMatch(/only a header row/);
+  });
+});
