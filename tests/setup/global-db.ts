@@ -1,4 +1,4 @@
-import { existsSync, mkdtempSync, readdirSync, readFileSync, rmSync, writeFileSync } from "node:fs";
+import { existsSync, mkdtempSync, readdirSync, readFileSync, rmSync, statSync, writeFileSync } from "node:fs";
 import { createServer } from "node:net";
 import { tmpdir } from "node:os";
 import path from "node:path";
@@ -30,7 +30,8 @@ function freePort(): Promise<number> {
 
 function ownerAlive(dir: string): boolean {
   const file = path.join(dir, OWNER_FILE);
-  if (!existsSync(file)) return false;
+  // A directory without its owner file may be a run that is just starting.
+  if (!existsSync(file)) return Date.now() - statSync(dir).mtimeMs < 10 * 60_000;
   const pid = Number(readFileSync(file, "utf8"));
   try {
     process.kill(pid, 0);
