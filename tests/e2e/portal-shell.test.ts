@@ -199,6 +199,17 @@ describe("portal shell in a real browser", () => {
     expect(await page.getByText(`Showing ${rows} entries`).count()).toBe(1);
     expect(await log.getByRole("row").filter({ hasText: "team.invite-created" }).filter({ hasText: invitee.email }).count()).toBe(1);
 
+    // A small laptop screen: the page itself must not scroll sideways (wide tables scroll inside their card).
+    await page.setViewportSize({ width: 1024, height: 720 });
+    for (const [label, file] of [["Team", "15-team-narrow"], ["Outbox", "16-outbox-narrow"], ["Activity", "17-activity-narrow"]] as const) {
+      await page.getByRole("navigation", { name: "Main" }).getByRole("link", { name: label, exact: true }).click();
+      await page.getByRole("heading", { level: 1, name: label }).waitFor();
+      await expect.poll(() => page.getByRole("status").filter({ hasText: "Loading" }).count()).toBe(0);
+      expect(await page.evaluate(() => document.documentElement.scrollWidth - window.innerWidth)).toBeLessThanOrEqual(0);
+      await screenshot(page, file);
+    }
+    await page.setViewportSize({ width: 1360, height: 860 });
+
     await page.goto(`${server.url}/`);
     await page.getByRole("heading", { level: 1, name: "Overview" }).waitFor();
     const focused = () => page.evaluate(() => document.activeElement?.textContent?.trim() ?? "");
@@ -208,7 +219,7 @@ describe("portal shell in a real browser", () => {
     expect(await focused()).toBe("Overview");
     await page.keyboard.press("Tab");
     expect(await focused()).toBe("Graphs");
-    await screenshot(page, "15-keyboard-focus");
+    await screenshot(page, "18-keyboard-focus");
 
     expect(browser.pageErrors).toEqual([]);
   });
@@ -220,7 +231,7 @@ describe("portal shell in a real browser", () => {
     await page.getByLabel("E-mail").fill("engineer@kestrel.example");
     await page.getByRole("button", { name: "Send reset link" }).click();
     await page.getByRole("status").filter({ hasText: "reset link is on its way" }).waitFor();
-    await screenshot(page, "16-forgot-password");
+    await screenshot(page, "19-forgot-password");
 
     await signIn(page, server.url, "admin@kestrel.example", DEMO_PASSWORD);
     await page.waitForURL(`${server.url}/`);
@@ -235,7 +246,7 @@ describe("portal shell in a real browser", () => {
     await page.getByLabel("New password", { exact: true }).fill(newPassword);
     expect(await page.getByText("Use at least 10 characters.").count()).toBe(0);
     await page.getByLabel("Repeat new password").fill(newPassword);
-    await screenshot(page, "17-reset-password");
+    await screenshot(page, "20-reset-password");
     await page.getByRole("button", { name: "Save password" }).click();
     await page.waitForURL(/\/sign-in$/);
     await page.getByRole("status").filter({ hasText: "Password saved" }).waitFor();

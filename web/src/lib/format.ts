@@ -16,3 +16,9 @@ export function formatDateTime(value: string | number | Date | null | undefined)
 export function isoOrEmpty(value: string | number | Date | null | undefined): string | undefined {
   return toDate(value)?.toISOString();
 }
+
+/** Local calendar date as "2026-12-02". */
+export function formatDate(value: string | number | Date | null | undefined): string {
+  const d = toDate(value);
+  return d ? `${d.getFullYear()}-${pad(d.getMonth() + 1)}-${pad(d.getDate())}` : "—";
+}

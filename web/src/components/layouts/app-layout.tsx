@@ -51,7 +51,7 @@ export function AppLayout({ nav, user, onSignOut, signingOut, children }: AppLay
                       }
                     >
                       {item.label}
-                      {item.note ? <span className="text-[0.625rem] tracking-wide text-paper/55 uppercase">{item.note}</span> : null}
+                      {item.note ? <span aria-hidden className="text-[0.625rem] tracking-wide text-paper/55 uppercase">{item.note}</span> : null}
                     </NavLink>
                   </li>
                 ))}

@@ -5,7 +5,7 @@ import { ErrorBanner } from "../../../components/ui/error-banner";
 import { Select } from "../../../components/ui/field";
 import { TBody, TD, TH, THead, TR, Table } from "../../../components/ui/table";
 import { ROLE_LABELS, ROLE_OPTIONS, ROLE_TONES, parseRole } from "../../../lib/auth";
-import { formatDateTime, isoOrEmpty } from "../../../lib/format";
+import { formatDate, formatDateTime, isoOrEmpty } from "../../../lib/format";
 import { useTeam, type Member } from "../api/get-team";
 import { useRemoveMember } from "../api/remove-member";
 import { useUpdateMemberRole } from "../api/update-member-role";
@@ -74,7 +74,7 @@ function MemberRow({ member, isSelf, canManage, confirming, busy, onConfirm, onR
         {display}
         {isSelf ? <span className="ml-2 text-xs font-normal text-ink-muted">(you)</span> : null}
       </TD>
-      <TD className="text-ink-soft">{member.email}</TD>
+      <TD className="whitespace-nowrap text-ink-soft">{member.email}</TD>
       <TD>
         {canManage && !isSelf ? (
           <Select
@@ -90,7 +90,9 @@ function MemberRow({ member, isSelf, canManage, confirming, busy, onConfirm, onR
         )}
       </TD>
       <TD className="num text-ink-soft">
-        <time dateTime={isoOrEmpty(member.joinedAt)}>{formatDateTime(member.joinedAt)}</time>
+        <time dateTime={isoOrEmpty(member.joinedAt)} title={formatDateTime(member.joinedAt)}>
+          {formatDate(member.joinedAt)}
+        </time>
       </TD>
       {canManage ? (
         <TD className="text-right">

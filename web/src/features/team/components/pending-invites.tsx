@@ -33,7 +33,7 @@ export function PendingInvites() {
         <TBody>
           {data.items.map((invite) => (
             <TR key={invite.id}>
-              <TD className="font-medium">{invite.email}</TD>
+              <TD className="font-medium whitespace-nowrap">{invite.email}</TD>
               <TD>
                 <Badge tone={ROLE_TONES[invite.role]}>{ROLE_LABELS[invite.role]}</Badge>
               </TD>
