@@ -1,4 +1,4 @@
-import { customType, index, int, mediumtext, mysqlEnum, mysqlTable, char, json, uniqueIndex, varchar } from "drizzle-orm/mysql-core";
+import { boolean, customType, index, int, mediumtext, mysqlEnum, mysqlTable, char, json, uniqueIndex, varchar } from "drizzle-orm/mysql-core";
 import { at, createdAt, id, ref, ROLES, updatedAt } from "./columns";
 
 export const users = mysqlTable(
@@ -8,6 +8,8 @@ export const users = mysqlTable(
     email: varchar("email", { length: 254 }).notNull(),
     name: varchar("name", { length: 120 }).notNull(),
     passwordHash: varchar("password_hash", { length: 255 }).notNull(),
+    /** Run e-mails (finished, failed, needs attention); each run also has its own flag. */
+    notify: boolean("notify").notNull().default(true),
     createdAt: createdAt(),
     updatedAt: updatedAt(),
     disabledAt: at("disabled_at"),

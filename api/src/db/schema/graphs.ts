@@ -42,6 +42,12 @@ export const graphs = mysqlTable(
     storagePath: varchar("storage_path", { length: 1024 }),
     fingerprint: varchar("fingerprint", { length: 128 }),
     rejectReason: text("reject_reason"),
+    /** Where and why the ingest refused the file: `{ code, file, line, reason, message }` (see contracts/graphs.ts). */
+    rejection: json("rejection").$type<Record<string, unknown>>(),
+    /** Live ingest progress, rewritten a few times a second: `{ phase, bytesRead, totalBytes, rows, rowsPerSecond }`. */
+    progress: json("progress").$type<Record<string, unknown>>(),
+    claimedBy: varchar("claimed_by", { length: 128 }),
+    heartbeatAt: at("heartbeat_at"),
     isDemo: boolean("is_demo").notNull().default(false),
     createdAt: createdAt(),
     updatedAt: updatedAt(),
@@ -60,7 +66,11 @@ export const graphProblems = mysqlTable(
     teamId: ref("team_id").notNull().references(() => teams.id, { onDelete: "cascade" }),
     graphId: ref("graph_id").notNull().references(() => graphs.id, { onDelete: "cascade" }),
     lineNumber: bigint("line_number", { mode: "number", unsigned: true }).notNull(),
+    /** A stable reason code (e.g. `wrong-column-count`). */
     reason: varchar("reason", { length: 255 }).notNull(),
+    /** Human detail, e.g. "expected 2 columns, found 3". */
+    detail: varchar("detail", { length: 255 }).notNull().default(""),
+    /** The line's text as read (cut to the column size), empty when it could not be kept. */
     line: varchar("line", { length: 1024 }).notNull(),
     createdAt: createdAt(),
   },

@@ -42,6 +42,11 @@ export const runs = mysqlTable(
     claimedBy: varchar("claimed_by", { length: 128 }),
     heartbeatAt: at("heartbeat_at"),
     cancelRequestedAt: at("cancel_requested_at"),
+    /** Set by `POST /api/runs/:id/retry`; the runner resumes from the last checkpoint and clears it. */
+    retryRequestedAt: at("retry_requested_at"),
+    /** How many times the run was (re)started by a runner: claims, reclaims after an expired lease, retries. */
+    attempts: int("attempts", { unsigned: true }).notNull().default(0),
+    lastCheckpointK: int("last_checkpoint_k", { unsigned: true }),
     createdAt: createdAt(),
     updatedAt: updatedAt(),
     startedAt: at("started_at"),
@@ -106,4 +111,41 @@ export const runEvents = mysqlTable(
     createdAt: createdAt(),
   },
   (t) => [index("run_events_run_idx").on(t.runId, t.id)],
+);
+
+/** The top-k of a finished run, one row per position; the full ranking lives in the score files. */
+export const runTop = mysqlTable(
+  "run_top",
+  {
+    id: id(),
+    teamId: ref("team_id").notNull().references(() => teams.id, { onDelete: "cascade" }),
+    runId: ref("run_id").notNull().references(() => runs.id, { onDelete: "cascade" }),
+    rank: int("rank", { unsigned: true }).notNull(),
+    /** The original id, as written in the score file. */
+    nodeId: varchar("node_id", { length: 1024 }).notNull(),
+    score: double("score").notNull(),
+  },
+  (t) => [uniqueIndex("run_top_run_rank_unique").on(t.runId, t.rank)],
+);
+
+/** One row per runner process, rewritten every few seconds; the Overview page reads pool health from it. */
+export const runnerHeartbeats = mysqlTable(
+  "runner_heartbeats",
+  {
+    id: id(),
+    runnerId: varchar("runner_id", { length: 128 }).notNull(),
+    host: varchar("host", { length: 255 }).notNull(),
+    pid: int("pid", { unsigned: true }).notNull(),
+    threads: int("threads", { unsigned: true }).notNull(),
+    busy: int("busy", { unsigned: true }).notNull().default(0),
+    rssBytes: bigint("rss_bytes", { mode: "number", unsigned: true }).notNull().default(0),
+    heapBytes: bigint("heap_bytes", { mode: "number", unsigned: true }).notNull().default(0),
+    currentRunId: ref("current_run_id"),
+    currentGraphId: ref("current_graph_id"),
+    softwareVersion: varchar("software_version", { length: 64 }),
+    startedAt: at("started_at").notNull(),
+    beatAt: at("beat_at").notNull(),
+    stoppedAt: at("stopped_at"),
+  },
+  (t) => [uniqueIndex("runner_heartbeats_runner_unique").on(t.runnerId), index("runner_heartbeats_beat_idx").on(t.beatAt)],
 );
