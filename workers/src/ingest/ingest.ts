@@ -245,11 +245,11 @@ function reconcile(acks: ChunkAck[], laneOf: number[], parts: ParsedPart[]) {
 function checkCounts(path: string, size: number, c: Counts, bad: BadLine[], maxBadLines: number): void {
   if (c.badLines > maxBadLines) {
     const first = bad[0];
-    const more = c.badLines > 1 ? `; ${c.badLines} bad lines seen` : "";
+    const count = c.badLines === 1 ? "1 bad line" : `${c.badLines} bad lines`;
     throw new IngestError(
       "too-many-bad-lines",
       path,
-      `${path}: ${describeBadLine(first)}${more} (at most ${maxBadLines} allowed)`,
+      `${path}: ${describeBadLine(first)}; ${count}, at most ${maxBadLines} allowed`,
       first,
       bad,
       c.badLines,

@@ -50,8 +50,7 @@ export function sniffFormat(sample: Uint8Array, options: GraphOptions, maxLines:
     const n = splitFields(sample, s, e, delimiter, fields);
     return { n, f: fields.slice() };
   });
-  const body = rows.length > 1 ? rows.slice(1) : rows;
-  const columns = modalColumns(body.map((r) => r.n));
+  const columns = modalColumns(rows.map((r) => r.n));
   const isInt = (r: (typeof rows)[number], k: number) => r.n > k && isAllDigits(sample, r.f[3 * k], r.f[3 * k + 1]) && r.f[3 * k + 1] - r.f[3 * k] <= 20;
   const isNum = (r: (typeof rows)[number], k: number) => {
     if (r.n <= k) return false;
@@ -78,6 +77,7 @@ export function sniffFormat(sample: Uint8Array, options: GraphOptions, maxLines:
   return { delimiter, header, columns, idKind };
 }
 
+/** The more frequent of 2 and 3 fields; a tie goes to the first line's count. */
 function modalColumns(counts: number[]): 2 | 3 {
   let two = 0;
   let three = 0;
@@ -85,6 +85,7 @@ function modalColumns(counts: number[]): 2 | 3 {
     if (c === 2) two++;
     else if (c === 3) three++;
   }
+  if (two === three) return counts[0] === 3 ? 3 : 2;
   return three > two ? 3 : 2;
 }
 
@@ -95,8 +96,7 @@ function detectDelimiter(buf: Uint8Array, lines: Array<[number, number]>): Delim
   let bestScore = -1;
   for (const d of [",", "\t", " "] as const) {
     const counts = lines.map(([s, e]) => splitFields(buf, s, e, d, fields));
-    const body = counts.length > 1 ? counts.slice(1) : counts;
-    const modal = modalColumns(body);
+    const modal = modalColumns(counts);
     const score = counts.filter((c) => c === modal).length;
     if (score > bestScore) {
       bestScore = score;

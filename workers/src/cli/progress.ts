@@ -1,0 +1,33 @@
+// Progress bars on stderr, only when stderr is a terminal (never in pipes, logs or tests).
+
+import cliProgress from "cli-progress";
+
+export interface Progress {
+  update(value: number, total: number, label: string): void;
+  stop(): void;
+}
+
+const SILENT: Progress = { update: () => {}, stop: () => {} };
+
+export function progressBar(title: string, enabled = process.stderr.isTTY === true): Progress {
+  if (!enabled) return SILENT;
+  const bar = new cliProgress.SingleBar(
+    { stream: process.stderr, format: `${title} [{bar}] {percentage}% {label}`, hideCursor: true, clearOnComplete: true },
+    cliProgress.Presets.shades_classic,
+  );
+  let started = false;
+  return {
+    update(value, total, label) {
+      if (!started) {
+        bar.start(total, value, { label });
+        started = true;
+      } else {
+        bar.setTotal(total);
+        bar.update(value, { label });
+      }
+    },
+    stop() {
+      if (started) bar.stop();
+    },
+  };
+}
