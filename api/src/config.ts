@@ -29,6 +29,8 @@ const EnvSchema = z.object({
   STILLPOINT_SIGNIN_WINDOW_MINUTES: z.coerce.number().positive().default(15),
   STILLPOINT_TRUST_PROXY: flag(false),
   STILLPOINT_WEB_DIR: z.string().optional(),
+  STILLPOINT_MAX_UPLOAD_BYTES: z.coerce.number().int().positive().default(64 * 2 ** 30),
+  STILLPOINT_TEAM_QUOTA_BYTES: z.coerce.number().int().positive().optional(),
 });
 
 export interface Config {
@@ -47,6 +49,8 @@ export interface Config {
   trustProxy: boolean;
   /** Directory of the built web app to serve; absent means API only. */
   webDir: string | undefined;
+  /** Largest single upload; a team's `quotas.maxStorageBytes` (else `defaultQuotaBytes`, else none) bounds the sum. */
+  uploads: { maxBytes: number; defaultQuotaBytes: number | null };
 }
 
 export class ConfigError extends Error {}
@@ -92,5 +96,6 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env): Config {
     signIn: { maxFailures: e.STILLPOINT_SIGNIN_MAX_FAILURES, windowMs: e.STILLPOINT_SIGNIN_WINDOW_MINUTES * 60_000 },
     trustProxy: e.STILLPOINT_TRUST_PROXY,
     webDir: e.STILLPOINT_WEB_DIR,
+    uploads: { maxBytes: e.STILLPOINT_MAX_UPLOAD_BYTES, defaultQuotaBytes: e.STILLPOINT_TEAM_QUOTA_BYTES ?? null },
   };
 }
