@@ -46,6 +46,8 @@ export interface RankReport {
   stopReason: RankResult["stopReason"];
   timings: { parse: number; build: number; iterate: number; perIteration: number; write: number; total: number };
   peakRssBytes: number;
+  /** Bytes of the prepared graph's arrays (in-offsets, sources, weights, out-weights; ids not counted). */
+  graphBytes: number;
   threads: number;
   damping: number;
   tolerance: number;
@@ -159,6 +161,7 @@ export async function rankCommand(file: string, o: RankCommandOptions): Promise<
       total: round(tWritten - t0),
     },
     peakRssBytes: process.resourceUsage().maxRSS * 1024,
+    graphBytes: graph.inOffsets.byteLength + graph.sources.byteLength + (graph.weights?.byteLength ?? 0) + graph.outWeight.byteLength,
     threads,
     damping: o.damping,
     tolerance: o.tolerance,
