@@ -222,6 +222,7 @@ describe("portal shell in a real browser", () => {
     await screenshot(page, "18-keyboard-focus");
 
     expect(browser.pageErrors).toEqual([]);
+    expect(browser.consoleProblems).toEqual([]);
   });
 
   it("resets a forgotten password through the e-mailed link", async () => {
@@ -257,5 +258,6 @@ describe("portal shell in a real browser", () => {
     await page.waitForURL(`${server.url}/`);
     expect(await page.getByRole("group", { name: "Signed-in user" }).textContent()).toContain("Engineer");
     expect(browser.pageErrors).toEqual([]);
+    expect(browser.consoleProblems).toEqual([]);
   });
 });

@@ -56,6 +56,8 @@ export interface Browser {
   page: Page;
   /** Uncaught exceptions thrown in the page; a healthy run has none. */
   pageErrors: string[];
+  /** Console warnings and errors, except the 401s of the signed-out session probe and of wrong passwords. */
+  consoleProblems: string[];
   close(): Promise<void>;
 }
 
@@ -78,10 +80,18 @@ export async function launchBrowser(): Promise<Browser> {
   const page = context.pages()[0] ?? (await context.newPage());
   const pageErrors: string[] = [];
   page.on("pageerror", (error) => pageErrors.push(error.message));
+  const consoleProblems: string[] = [];
+  page.on("console", (message) => {
+    const expected401 = message.text().includes("status of 401");
+    if ((message.type() === "error" && !expected401) || message.type() === "warning") {
+      consoleProblems.push(`${message.type()}: ${message.text()}`);
+    }
+  });
   return {
     context,
     page,
     pageErrors,
+    consoleProblems,
     async close() {
       await context.close();
       rmSync(profile, { recursive: true, force: true });

@@ -16,7 +16,8 @@ export function useAcceptInvite() {
   return useMutation({
     mutationFn: acceptInvite,
     onSuccess: (session) => {
-      queryClient.clear();
+      // Drop whatever an earlier user left cached, but keep the invitation: refetching it now would answer 410.
+      queryClient.removeQueries({ predicate: (query) => query.queryKey[0] !== "invites" });
       rememberSession(queryClient, session);
     },
   });
