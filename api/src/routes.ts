@@ -6,6 +6,7 @@ import { invitesRoutes } from "./features/invites/invites.routes";
 import { outboxRoutes } from "./features/outbox/outbox.routes";
 import { teamRoutes } from "./features/team/team.routes";
 import { tokensRoutes } from "./features/tokens/tokens.routes";
+import { uploadsRoutes } from "./features/uploads/uploads.routes";
 import { defineRoute, type RouteDef } from "./http/route";
 import { buildOpenApiDocument } from "./openapi";
 
@@ -31,5 +32,6 @@ export const ROUTES: readonly RouteDef[] = [
   ...tokensRoutes,
   ...activityRoutes,
   ...outboxRoutes,
+  ...uploadsRoutes,
   openApiRoute,
 ];
