@@ -1,0 +1,49 @@
+// A finished run's results: score files (CSV, Arrow IPC, Parquet) in the run's folder and the top-k in MariaDB.
+import { mkdir, stat } from "node:fs/promises";
+import path from "node:path";
+import type { NodeIds } from "../core/graph";
+import { topK } from "../output/rank-order";
+import { writeScores, type ScoreFormat } from "../output/write-scores";
+import { runDirPath, type RunnerContext } from "./context";
+import { replaceTop } from "./run-repo";
+import { idText } from "./seeds";
+
+export const SCORE_FORMATS: readonly ScoreFormat[] = ["csv", "arrow", "parquet"];
+
+export interface ScoreFileRecord {
+  format: ScoreFormat;
+  /** Relative to the data directory. */
+  path: string;
+  bytes: number;
+}
+
+/** What `runs.outputs` holds: the folder and one entry per score file. */
+export interface RunOutputs {
+  dir: string;
+  files: ScoreFileRecord[];
+  nodes: number;
+  topK: number;
+}
+
+export async function writeRunOutputs(
+  ctx: RunnerContext,
+  run: { id: number; teamId: number },
+  ids: NodeIds,
+  scores: Float64Array,
+  k: number,
+  meta: Record<string, string>,
+): Promise<RunOutputs> {
+  const dir = runDirPath(run.id);
+  const abs = path.resolve(ctx.config.dataDir, dir);
+  await mkdir(abs, { recursive: true });
+  const files: ScoreFileRecord[] = [];
+  for (const format of SCORE_FORMATS) {
+    const name = `scores.${format}`;
+    await writeScores(path.join(abs, name), format, ids, scores, meta);
+    files.push({ format, path: path.join(dir, name), bytes: (await stat(path.join(abs, name))).size });
+  }
+  const order = topK(scores, Math.min(k, scores.length));
+  const rows = Array.from(order, (v, i) => ({ rank: i + 1, nodeId: idText(ids, v), score: scores[v] }));
+  await ctx.retry("store top-k", () => replaceTop(ctx.db, run.teamId, run.id, rows));
+  return { dir, files, nodes: scores.length, topK: rows.length };
+}
