@@ -34,6 +34,8 @@ export interface RunnerConfig {
   checkpointEvery: number;
   retry: RetryPolicy;
   faults: RunnerFault[];
+  /** Work only for these teams (a dedicated runner); empty means every team. */
+  teams: number[];
   /** How long stop() waits for an ingest in progress before handing it back to the queue. */
   stopGraceMs: number;
   mail: Config["mail"];
@@ -81,6 +83,11 @@ const RunnerEnvSchema = z.object({
   STILLPOINT_RUNNER_RETRY: jsonText(RetrySchema).optional(),
   STILLPOINT_FAULTS: jsonText(z.array(FaultSchema)).optional(),
   STILLPOINT_TEST_FAULTS: z.enum(["0", "1"]).optional(),
+  STILLPOINT_RUNNER_TEAMS: z
+    .string()
+    .regex(/^\d+(,\d+)*$/, "must be a comma-separated list of team ids")
+    .transform((text) => text.split(",").map(Number))
+    .optional(),
 });
 
 export function softwareVersion(): string {
@@ -120,6 +127,7 @@ export function loadRunnerConfig(env: NodeJS.ProcessEnv = process.env): RunnerCo
     checkpointEvery: e.STILLPOINT_RUNNER_CHECKPOINT_EVERY,
     retry: e.STILLPOINT_RUNNER_RETRY ?? DEFAULT_RETRY,
     faults: faultsAllowed ? (e.STILLPOINT_FAULTS ?? []) : [],
+    teams: e.STILLPOINT_RUNNER_TEAMS ?? [],
     stopGraceMs: e.STILLPOINT_RUNNER_STOP_GRACE_MS,
     mail: base.mail,
     publicUrl: base.publicUrl ?? `http://localhost:${base.port}`,

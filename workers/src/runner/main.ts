@@ -162,17 +162,17 @@ class RunnerProcess implements Runner {
   /** Claims and executes at most one job; ingests and runs take turns being looked at first. */
   async #tick(preferRun: boolean): Promise<boolean> {
     const ctx = this.#ctx;
-    const { runnerId, leaseMs } = ctx.config;
+    const { runnerId, leaseMs, teams } = ctx.config;
     for (const kind of preferRun ? (["run", "ingest"] as const) : (["ingest", "run"] as const)) {
       if (this.#stopping) return false;
       if (kind === "ingest") {
-        const claim = await ctx.retry("claim ingest", () => claimIngest(ctx.db, runnerId, leaseMs));
+        const claim = await ctx.retry("claim ingest", () => claimIngest(ctx.db, runnerId, leaseMs, teams));
         if (claim) {
           await this.#execute({ kind, id: claim.graph.id, teamId: claim.graph.teamId }, (control) => executeIngest(ctx, claim, control));
           return true;
         }
       } else {
-        const claim = await ctx.retry("claim run", () => claimRun(ctx.db, runnerId, leaseMs));
+        const claim = await ctx.retry("claim run", () => claimRun(ctx.db, runnerId, leaseMs, teams));
         if (claim) {
           await this.#execute({ kind, id: claim.run.id, teamId: claim.run.teamId }, (control) => executeRun(ctx, claim, control));
           return true;

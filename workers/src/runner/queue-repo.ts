@@ -30,7 +30,7 @@ export interface ClaimedRun {
  * own id: a runner only looks for work when it holds none, so such a claim is left over from its previous life).
  * Runs wait until their graph's ingest has ended.
  */
-export async function claimRun(db: Db, runnerId: string, leaseMs: number): Promise<ClaimedRun | null> {
+export async function claimRun(db: Db, runnerId: string, leaseMs: number, teams: readonly number[] = []): Promise<ClaimedRun | null> {
   return db.transaction(async (tx) => {
     const found = await tx
       .select({ id: runs.id, status: runs.status, claimedBy: runs.claimedBy, retry: runs.retryRequestedAt })
@@ -39,6 +39,7 @@ export async function claimRun(db: Db, runnerId: string, leaseMs: number): Promi
       .where(
         and(
           isNull(runs.deletedAt),
+          teams.length > 0 ? inArray(runs.teamId, [...teams]) : undefined,
           inArray(graphs.status, ["ready", "rejected"]),
           or(
             eq(runs.status, "queued"),
@@ -79,7 +80,7 @@ export interface ClaimedIngest {
 }
 
 /** Claims the oldest queued graph, or one whose ingest lease expired; marks it ingesting. */
-export async function claimIngest(db: Db, runnerId: string, leaseMs: number): Promise<ClaimedIngest | null> {
+export async function claimIngest(db: Db, runnerId: string, leaseMs: number, teams: readonly number[] = []): Promise<ClaimedIngest | null> {
   return db.transaction(async (tx) => {
     const found = await tx
       .select({ id: graphs.id, status: graphs.status })
@@ -87,6 +88,7 @@ export async function claimIngest(db: Db, runnerId: string, leaseMs: number): Pr
       .where(
         and(
           isNull(graphs.deletedAt),
+          teams.length > 0 ? inArray(graphs.teamId, [...teams]) : undefined,
           or(
             eq(graphs.status, "queued"),
             and(eq(graphs.status, "ingesting"), or(isNull(graphs.heartbeatAt), expired(graphs.heartbeatAt, leaseMs), eq(graphs.claimedBy, runnerId))),
