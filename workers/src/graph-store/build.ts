@@ -5,7 +5,7 @@
 // the set of input lines. Duplicate arcs stay adjacent in file order, so merged weights are summed in file order.
 
 import type { Graph, NodeIds } from "../core/graph";
-import type { CanonicalEdges, EdgeSegment } from "../ingest/assemble";
+import type { ArcCounts, CanonicalEdges, EdgeSegment } from "../ingest/assemble";
 import { sharedF64, sharedU32 } from "./shared";
 
 export interface BuildPolicy {
@@ -30,45 +30,25 @@ export function buildGraph(input: CanonicalEdges, policy: BuildPolicy): { graph:
   const dropSelf = policy.selfLoops === "drop";
   const both = !policy.directed;
   const weighted = input.segments.some((s) => s.weight !== null);
+  const merge = policy.duplicates === "merge";
   if (n >= 2 ** 32 - 1) throw new RangeError(`too many nodes for 32-bit indexes: ${n}`);
-
-  const outCount = new Uint32Array(n);
-  const inCount = new Uint32Array(n);
-  let arcs = 0;
-  let dropped = 0;
-  for (const { src, dst, map } of input.segments) {
-    for (let i = 0; i < src.length; i++) {
-      const u = map[src[i]];
-      const v = map[dst[i]];
-      if (u === v && dropSelf) {
-        dropped++;
-        continue;
-      }
-      outCount[u]++;
-      inCount[v]++;
-      arcs++;
-      if (both && u !== v) {
-        outCount[v]++;
-        inCount[u]++;
-        arcs++;
-      }
-    }
-  }
+  const counts = input.degrees ?? countArcs(input, dropSelf, both);
+  const arcs = counts.arcs;
   if (arcs >= 2 ** 32) throw new RangeError(`too many edges for 32-bit offsets: ${arcs}`);
 
-  const perm = policy.renumber ? hubsFirst(outCount) : identity(n);
+  const perm = policy.renumber ? hubsFirst(counts.out) : identity(n);
   const outStart = new Uint32Array(n + 1);
   const inOffsets = sharedU32(n + 1);
   for (let c = 0; c < n; c++) {
-    outStart[perm[c] + 1] = outCount[c];
-    inOffsets[perm[c] + 1] = inCount[c];
+    outStart[perm[c] + 1] = counts.out[c];
+    inOffsets[perm[c] + 1] = counts.in[c];
   }
   for (let u = 0; u < n; u++) {
     outStart[u + 1] += outStart[u];
     inOffsets[u + 1] += inOffsets[u];
   }
 
-  // Pass A: arcs grouped by final source id (stable), carrying their target and weight.
+  // Pass A: arcs grouped by final source id (stable: file order inside a group), carrying target and weight.
   const bySrcDst = new Uint32Array(arcs);
   const bySrcW = weighted ? new Float64Array(arcs) : null;
   const cursor = outStart.slice(0, n);
@@ -82,38 +62,100 @@ export function buildGraph(input: CanonicalEdges, policy: BuildPolicy): { graph:
     scatterBySource(seg, fmap, dropSelf, both, cursor, bySrcDst, bySrcW);
   }
 
-  // Pass B: walking sources in ascending order fills each in-list already sorted.
+  // Pass B: walking sources in ascending order fills each in-list already sorted; an arc equal to the one just
+  // placed in its list is a duplicate and (when merging) adds its weight there. W_u sums u's arcs in file order.
   const sources = sharedU32(arcs);
-  let weights = weighted ? sharedF64(arcs) : null;
-  const fill = inOffsets.slice(0, n);
+  let weights = weighted || merge ? sharedF64(arcs) : null;
+  const outWeight = sharedF64(n);
+  const fillLast = new Uint32Array(2 * n);
+  for (let v = 0; v < n; v++) {
+    fillLast[2 * v] = inOffsets[v];
+    fillLast[2 * v + 1] = NO_SOURCE;
+  }
+  let merged = 0;
   for (let u = 0; u < n; u++) {
+    let sum = 0;
     for (let p = outStart[u], end = outStart[u + 1]; p < end; p++) {
-      const at = fill[bySrcDst[p]]++;
+      const v = bySrcDst[p];
+      const w = bySrcW !== null ? bySrcW[p] : 1;
+      sum += w;
+      const at = fillLast[2 * v];
+      if (merge && fillLast[2 * v + 1] === u) {
+        (weights as Float64Array)[at - 1] += w;
+        merged++;
+        continue;
+      }
       sources[at] = u;
-      if (weights !== null && bySrcW !== null) weights[at] = bySrcW[p];
+      if (weights !== null) weights[at] = w;
+      fillLast[2 * v] = at + 1;
+      fillLast[2 * v + 1] = u;
     }
+    outWeight[u] = sum;
   }
 
   let m = arcs;
-  let merged = 0;
-  let srcOut = sources;
-  if (policy.duplicates === "merge") {
-    const r = mergeDuplicates(n, inOffsets, sources, weights);
-    merged = arcs - r.m;
-    m = r.m;
-    weights = r.weights;
-    srcOut = sources.subarray(0, m);
-    if (weights) weights = weights.subarray(0, m);
-  }
-
-  const outWeight = sharedF64(n);
-  for (let e = 0; e < m; e++) outWeight[srcOut[e]] += weights ? weights[e] : 1;
-
-  const graph: Graph = { n, m, inOffsets, sources: srcOut, weights, outWeight, ids: permuteIds(input.ids, perm) };
+  if (merged > 0) m = compact(n, inOffsets, fillLast, sources, weights);
+  else if (!weighted) weights = null;
+  const graph: Graph = {
+    n,
+    m,
+    inOffsets,
+    sources: m === arcs ? sources : sources.subarray(0, m),
+    weights: weights && m !== arcs ? weights.subarray(0, m) : weights,
+    outWeight,
+    ids: permuteIds(input.ids, perm),
+  };
   return {
     graph,
-    report: { arcs, selfLoopsDropped: dropped, duplicatesMerged: merged, order: policy.renumber ? "out-degree" : "id" },
+    report: { arcs, selfLoopsDropped: counts.selfLoopsDropped, duplicatesMerged: merged, order: policy.renumber ? "out-degree" : "id" },
   };
+}
+
+const NO_SOURCE = 0xffffffff;
+
+/** Arc counts by canonical id (the hash path; the direct path counts while numbering). */
+function countArcs(input: CanonicalEdges, dropSelf: boolean, both: boolean): ArcCounts {
+  const n = input.n;
+  const out = new Uint32Array(n);
+  const inn = new Uint32Array(n);
+  let arcs = 0;
+  let dropped = 0;
+  for (const { src, dst, map } of input.segments) {
+    for (let i = 0; i < src.length; i++) {
+      const u = map[src[i]];
+      const v = map[dst[i]];
+      if (u === v && dropSelf) {
+        dropped++;
+        continue;
+      }
+      out[u]++;
+      inn[v]++;
+      arcs++;
+      if (both && u !== v) {
+        out[v]++;
+        inn[u]++;
+        arcs++;
+      }
+    }
+  }
+  return { out, in: inn, arcs, selfLoopsDropped: dropped };
+}
+
+/** Close the gaps merged duplicates left at the end of in-lists; rewrites inOffsets, returns the edge count. */
+function compact(n: number, inOffsets: Uint32Array, fillLast: Uint32Array, sources: Uint32Array, weights: Float64Array | null): number {
+  let wr = 0;
+  for (let v = 0; v < n; v++) {
+    const start = inOffsets[v];
+    const end = fillLast[2 * v];
+    inOffsets[v] = wr;
+    if (start !== wr) {
+      sources.copyWithin(wr, start, end);
+      if (weights) weights.copyWithin(wr, start, end);
+    }
+    wr += end - start;
+  }
+  inOffsets[n] = wr;
+  return wr;
 }
 
 function scatterBySource(
@@ -140,41 +182,6 @@ function scatterBySource(
       if (bySrcW !== null) bySrcW[p] = w;
     }
   }
-}
-
-/**
- * Fold runs of equal sources inside each in-list into one arc whose weight is the run's summed weight (unit weights
- * sum to the multiplicity, so the transition probabilities do not change). Compacts in place and rewrites inOffsets.
- */
-function mergeDuplicates(
-  n: number,
-  inOffsets: Uint32Array,
-  sources: Uint32Array,
-  weights: Float64Array | null,
-): { m: number; weights: Float64Array | null } {
-  let dups = 0;
-  for (let v = 0; v < n; v++) {
-    for (let e = inOffsets[v] + 1, end = inOffsets[v + 1]; e < end; e++) if (sources[e] === sources[e - 1]) dups++;
-  }
-  if (dups === 0) return { m: inOffsets[n], weights };
-  const out = weights ?? sharedF64(inOffsets[n] - dups);
-  let wr = 0;
-  for (let v = 0; v < n; v++) {
-    const start = inOffsets[v];
-    const end = inOffsets[v + 1];
-    inOffsets[v] = wr;
-    for (let e = start; e < end; e++) {
-      const w = weights ? weights[e] : 1;
-      if (e > start && sources[e] === sources[e - 1]) out[wr - 1] += w;
-      else {
-        sources[wr] = sources[e];
-        out[wr] = w;
-        wr++;
-      }
-    }
-  }
-  inOffsets[n] = wr;
-  return { m: wr, weights: out };
 }
 
 /** perm[c] = final id: out-arc count descending, then canonical id ascending (stable counting sort). */

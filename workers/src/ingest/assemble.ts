@@ -21,6 +21,21 @@ export interface CanonicalEdges {
   n: number;
   ids: NodeIds;
   segments: EdgeSegment[];
+  /** Arc counts by canonical id under the policy, when numbering already counted them. */
+  degrees?: ArcCounts | null;
+}
+
+/** Arcs per node after the self-loop policy and undirected doubling, before duplicates merge. */
+export interface ArcCounts {
+  out: Uint32Array;
+  in: Uint32Array;
+  arcs: number;
+  selfLoopsDropped: number;
+}
+
+export interface CountPolicy {
+  directed: boolean;
+  dropSelfLoops: boolean;
 }
 
 export interface Numbering {
@@ -31,6 +46,8 @@ export interface Numbering {
   maps: Uint32Array[];
   /** How ids were numbered: a direct table indexed by id value, or hash tables. */
   idPath: "direct" | "hash";
+  /** Counted on the way (direct path only). */
+  degrees: ArcCounts | null;
 }
 
 /** Largest id range numbered with a direct table: 5 bytes per possible id value. */
@@ -46,31 +63,60 @@ export function commonMode(modes: IdMode[]): IdMode {
 }
 
 /** Canonical numbering for parts that are all "raw", all "int" or all "string". */
-export function numberNodes(parts: ParsedPart[]): Numbering {
+export function numberNodes(parts: ParsedPart[], policy: CountPolicy): Numbering {
   const mode = commonMode(parts.map((p) => p.mode));
   if (parts.some((p) => p.mode !== mode)) throw new Error("numberNodes: parts must share one id mode");
-  if (mode === "raw") return assembleRaw(parts);
+  if (mode === "raw") return assembleRaw(parts, policy);
   if (mode === "int") return assembleInt(parts);
   return assembleStrings(parts);
 }
 
-function assembleRaw(parts: ParsedPart[]): Numbering {
+/**
+ * Direct path: one pass counts lines by id value (as source, as target, as self-loop); a value is a node when it
+ * occurs at all (a node seen only in a dropped self-loop stays, as a dangling node). Arc counts per policy:
+ * directed out = sources − dropped self-loops (in likewise); undirected out = in = sources + targets − self-loops
+ * counted twice (dropped) or once (kept, an undirected self-loop is one arc).
+ */
+function assembleRaw(parts: ParsedPart[], policy: CountPolicy): Numbering {
   const maxId = Math.max(-1, ...parts.map((p) => p.maxId));
-  const seen = new Uint8Array(maxId + 1);
+  const outRaw = new Uint32Array(maxId + 1);
+  const inRaw = new Uint32Array(maxId + 1);
+  let selfRaw: Uint32Array | null = null;
   for (const p of parts) {
     const { src, dst } = p;
     for (let i = 0; i < src.length; i++) {
-      seen[src[i]] = 1;
-      seen[dst[i]] = 1;
+      const x = src[i];
+      const y = dst[i];
+      outRaw[x]++;
+      inRaw[y]++;
+      if (x === y) {
+        selfRaw ??= new Uint32Array(maxId + 1);
+        selfRaw[x]++;
+      }
     }
   }
   let n = 0;
-  for (let x = 0; x <= maxId; x++) n += seen[x];
+  for (let x = 0; x <= maxId; x++) if (outRaw[x] !== 0 || inRaw[x] !== 0) n++;
   const map = new Uint32Array(maxId + 1);
   const ids = new BigUint64Array(n);
+  const out = new Uint32Array(n);
+  const inn = new Uint32Array(n);
+  const selfPerArc = policy.directed ? (policy.dropSelfLoops ? 1 : 0) : policy.dropSelfLoops ? 2 : 1;
+  let arcs = 0;
+  let dropped = 0;
   let c = 0;
   for (let x = 0; x <= maxId; x++) {
-    if (seen[x] === 0) continue;
+    if (outRaw[x] === 0 && inRaw[x] === 0) continue;
+    const self = selfRaw ? selfRaw[x] : 0;
+    if (policy.dropSelfLoops) dropped += self;
+    if (policy.directed) {
+      out[c] = outRaw[x] - selfPerArc * self;
+      inn[c] = inRaw[x] - selfPerArc * self;
+    } else {
+      out[c] = outRaw[x] + inRaw[x] - selfPerArc * self;
+      inn[c] = out[c];
+    }
+    arcs += out[c];
     map[x] = c;
     ids[c++] = BigInt(x);
   }
@@ -79,6 +125,7 @@ function assembleRaw(parts: ParsedPart[]): Numbering {
     ids: { kind: "integer", ids },
     maps: parts.map(() => map),
     idPath: "direct",
+    degrees: { out, in: inn, arcs, selfLoopsDropped: dropped },
   };
 }
 
@@ -104,6 +151,7 @@ function assembleInt(parts: ParsedPart[]): Numbering {
     ids: { kind: "integer", ids: sorted },
     maps: globalOf.map((g) => compose(rank, g)),
     idPath: "hash",
+    degrees: null,
   };
 }
 
@@ -138,6 +186,7 @@ function assembleStrings(parts: ParsedPart[]): Numbering {
     ids: { kind: "string", bytes: outBytes, offsets: outOffsets },
     maps: globalOf.map((g) => compose(rank, g)),
     idPath: "hash",
+    degrees: null,
   };
 }
 

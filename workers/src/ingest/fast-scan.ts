@@ -1,6 +1,7 @@
-// Fast path for integer-id lines, storing the ids themselves (below 2^32; a larger id ends the scan): "digits D digits [D decimal] [\r]\n", D the delimiter (a run of spaces/tabs when
-// D is a space). Ids below 10^15 and plain decimals of at most 15 characters only; every other line, the first one
-// past the edge arrays' capacity included, is left to the caller: the scan stops at that line's first byte.
+// Fast path for integer-id lines, storing the ids themselves: "digits D digits [D decimal] [\r]\n", D the delimiter
+// (a run of spaces/tabs when D is a space). Ids below 2^32 (accumulated exactly: every partial value is below the
+// final one, far below 2^53) and plain decimals of at most 15 characters only; every other line, the first one past
+// the edge arrays' capacity included, is left to the caller: the scan stops at that line's first byte.
 // Self-loops are counted, not dropped (the graph build applies the policy).
 // Invariant: buf[e-1] is a newline, so the digit loops stop inside the buffer without bounds checks.
 
@@ -31,8 +32,8 @@ export function scanIntegerLines(buf: Uint8Array, p: number, e: number, st: Scan
   const weight = st.weight;
   const cap = src.length;
   let m = st.m;
-  let lines = st.lines;
-  let rows = st.dataRows;
+  const rows0 = st.dataRows;
+  let rows = rows0;
   let selfLoops = st.selfLoops;
   let maxId = st.maxId;
   let wMin = st.weightMin;
@@ -48,10 +49,9 @@ export function scanIntegerLines(buf: Uint8Array, p: number, e: number, st: Scan
       q++;
     }
     let c = buf[q];
-    if (q - p > 15 || (c !== D && !(ws && c === 9))) break;
+    if (a >= TWO32 || (c !== D && !(ws && c === 9))) break;
     q++;
     if (ws) while ((c = buf[q]) === 32 || c === 9) q++;
-    const bs = q;
     d = buf[q] - 48;
     if (d < 0 || d > 9) break;
     let b = d;
@@ -60,7 +60,7 @@ export function scanIntegerLines(buf: Uint8Array, p: number, e: number, st: Scan
       b = b * 10 + d;
       q++;
     }
-    if (q - bs > 15) break;
+    if (b >= TWO32) break;
     c = buf[q];
     let w = 1;
     if (threeCols) {
@@ -84,11 +84,9 @@ export function scanIntegerLines(buf: Uint8Array, p: number, e: number, st: Scan
       if (buf[q + 1] !== 10) break;
       q++;
     } else if (c !== 10) break;
-    if (a >= TWO32 || b >= TWO32) break;
     if (a > maxId) maxId = a;
     if (b > maxId) maxId = b;
     p = q + 1;
-    lines++;
     rows++;
     if (threeCols) {
       if (w < wMin) wMin = w;
@@ -101,7 +99,7 @@ export function scanIntegerLines(buf: Uint8Array, p: number, e: number, st: Scan
     m++;
   }
   st.m = m;
-  st.lines = lines;
+  st.lines += rows - rows0;
   st.dataRows = rows;
   st.selfLoops = selfLoops;
   st.maxId = maxId;

@@ -47,14 +47,16 @@ export async function ingestEdgeFile(path: string, options: Partial<GraphOptions
   const limits = resolveLimits(run.limits);
   const t0 = performance.now();
   const reader = await ChunkReader.open(path, limits);
-  let lanes: Lane[] = [];
+  const threads = limits.threads > 0 ? limits.threads : Math.min(8, availableParallelism());
+  const workerCount = threads < 2 || reader.size < limits.parallelMinBytes ? 0 : reader.gzip ? 1 : threads;
+  // Worker threads start now; until one is up, chunks are parsed here (lane index workerCount).
+  const lanes: Lane[] = Array.from({ length: workerCount }, () => new WorkerLane());
+  lanes.push(new LocalLane());
   try {
     const first = await reader.next();
     if (reader.size === 0 || !first) throw new IngestError("empty-file", path, `${path}: the file is empty`);
     const sample = new Uint8Array(first.buffer, 0, first.len);
     const format = sniffFormat(sample, opts, limits.sampleLines);
-    const threads = limits.threads > 0 ? limits.threads : Math.min(8, availableParallelism());
-    const workerLanes = threads < 2 || reader.size < limits.parallelMinBytes ? 0 : reader.gzip ? 1 : threads;
     const lineBytes = first.len / Math.max(1, countNewlines(sample));
     const expectedLines = ((reader.gzip ? reader.size * 4 : reader.size) / lineBytes) * 1.03;
     const cfg: ParserConfig = {
@@ -63,12 +65,12 @@ export async function ingestEdgeFile(path: string, options: Partial<GraphOptions
       maxFieldBytes: limits.maxFieldBytes,
       maxBadLines: opts.maxBadLines,
       atFileStart: false,
-      expectedLines: expectedLines / Math.max(1, workerLanes),
+      expectedLines: expectedLines / Math.max(1, workerCount),
       hashIds: run.hashIds,
     };
-    lanes = workerLanes === 0 ? [new LocalLane(cfg)] : Array.from({ length: workerLanes }, () => new WorkerLane(cfg));
+    for (const lane of lanes) lane.init(workerCount > 0 && lane instanceof LocalLane ? { ...cfg, expectedLines: 1 << 20 } : cfg);
 
-    // Parse: each chunk goes to the least busy lane.
+    // Parse: each chunk goes to the least busy ready worker; while none is ready, to the local lane.
     const acks: ChunkAck[] = [];
     const laneOf: number[] = [];
     const lastAck: Array<ChunkAck | null> = lanes.map(() => null);
@@ -77,10 +79,10 @@ export async function ingestEdgeFile(path: string, options: Partial<GraphOptions
     let stop = false;
     let rows = 0;
     for (let chunk: typeof first | null = first; chunk && !stop && failure === null; chunk = await reader.next()) {
-      let li = leastBusy(lanes);
+      let li = pickLane(lanes, workerCount);
       while (lanes[li].inflight >= MAX_INFLIGHT) {
         await Promise.race(pending);
-        li = leastBusy(lanes);
+        li = pickLane(lanes, workerCount);
       }
       laneOf[chunk.seq] = li;
       const p: Promise<void> = lanes[li].send(chunk, chunk.seq === 0).then(
@@ -102,21 +104,28 @@ export async function ingestEdgeFile(path: string, options: Partial<GraphOptions
     }
     await Promise.all(pending);
     if (failure !== null) throw failure;
+    if (process.env.STILLPOINT_DEBUG_INGEST) {
+      const busy = lanes.map((_, i) => acks.filter((a) => partLane(laneOf, a) === i).reduce((s, a) => s + a.busyMs, 0));
+      console.error(`parse lanes busy ms: ${busy.map((b) => b.toFixed(0)).join(", ")}; chunks ${acks.length}; wall ${(performance.now() - t0).toFixed(0)}`);
+    }
 
     let mode: IdMode = commonMode(lastAck.flatMap((a) => (a ? [a.mode] : [])));
     const totalEdges = acks.reduce((s, a) => s + (a.edgesAfter - a.edgesBefore), 0);
     const maxId = Math.max(-1, ...lastAck.map((a) => a?.maxId ?? -1));
     if (mode === "raw" && maxId + 1 > directLimit(totalEdges)) mode = "int";
-    const parts = await Promise.all(lanes.map((l) => l.finish(mode)));
+    const used = lanes.flatMap((_, i) => (lastAck[i] !== null ? [i] : []));
+    const parts = await Promise.all(used.map((i) => lanes[i].finish(mode)));
+    const partOfLane = new Map(used.map((lane, k) => [lane, k]));
+    const partOf = laneOf.map((lane) => partOfLane.get(lane) as number);
     const tParsed = performance.now();
 
-    const { badLines, counts } = reconcile(acks, laneOf, parts);
+    const { badLines, counts } = reconcile(acks, partOf, parts);
     checkCounts(path, reader.size, counts, badLines, opts.maxBadLines);
 
     run.onProgress?.({ phase: "build", bytesRead: reader.bytesRead, totalBytes: reader.size, rows: counts.lines });
-    const numbering = numberNodes(parts);
+    const numbering = numberNodes(parts, { directed: opts.directed, dropSelfLoops: opts.selfLoops === "drop" });
     const segments: EdgeSegment[] = acks.map((a) => {
-      const k = laneOf[a.seq];
+      const k = partOf[a.seq];
       const part = parts[k];
       return {
         src: part.src.subarray(a.edgesBefore, a.edgesAfter),
@@ -125,7 +134,7 @@ export async function ingestEdgeFile(path: string, options: Partial<GraphOptions
         map: numbering.maps[k],
       };
     });
-    const canonical: CanonicalEdges = { n: numbering.n, ids: numbering.ids, segments };
+    const canonical: CanonicalEdges = { n: numbering.n, ids: numbering.ids, segments, degrees: numbering.degrees };
     const tNumbered = performance.now();
     const { graph, report } = buildGraph(canonical, {
       directed: opts.directed,
@@ -164,7 +173,7 @@ export async function ingestEdgeFile(path: string, options: Partial<GraphOptions
       maxOutDegree: degrees.maxOutDegree,
       fingerprint: reader.fingerprint(),
       bytesRead: reader.bytesRead,
-      threads: Math.max(1, workerLanes),
+      threads: Math.max(1, workerCount),
       idPath: numbering.idPath,
       order: report.order,
       warnings,
@@ -187,10 +196,15 @@ export async function ingestEdgeFile(path: string, options: Partial<GraphOptions
   }
 }
 
-function leastBusy(lanes: Lane[]): number {
-  let best = 0;
-  for (let i = 1; i < lanes.length; i++) if (lanes[i].inflight < lanes[best].inflight) best = i;
-  return best;
+function partLane(laneOf: number[], a: ChunkAck): number {
+  return laneOf[a.seq];
+}
+
+/** The least busy ready worker lane; the local lane (last) only while no worker is ready. */
+function pickLane(lanes: Lane[], workers: number): number {
+  let best = -1;
+  for (let i = 0; i < workers; i++) if (lanes[i].ready && (best < 0 || lanes[i].inflight < lanes[best].inflight)) best = i;
+  return best < 0 ? workers : best;
 }
 
 function countNewlines(buf: Uint8Array): number {
@@ -202,11 +216,11 @@ function countNewlines(buf: Uint8Array): number {
 type Counts = ParsedPart["counts"];
 
 /** Sum the parts' counts and turn each part's local bad-line numbers into file line numbers. */
-function reconcile(acks: ChunkAck[], laneOf: number[], parts: ParsedPart[]) {
+function reconcile(acks: ChunkAck[], partOf: number[], parts: ParsedPart[]) {
   const lineStart = new Float64Array(acks.length + 1);
   for (let s = 0; s < acks.length; s++) lineStart[s + 1] = lineStart[s] + (acks[s].linesAfter - acks[s].linesBefore);
   const byLane: ChunkAck[][] = parts.map(() => []);
-  for (const a of acks) byLane[laneOf[a.seq]].push(a);
+  for (const a of acks) byLane[partOf[a.seq]].push(a);
   const badLines: BadLine[] = [];
   parts.forEach((part, k) => {
     for (const b of part.bad) {

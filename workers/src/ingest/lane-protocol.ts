@@ -14,6 +14,8 @@ export interface ChunkAck {
   mode: IdMode;
   maxId: number;
   stopped: boolean;
+  /** Time spent parsing this chunk. */
+  busyMs: number;
 }
 
 export type LaneRequest =
@@ -21,10 +23,15 @@ export type LaneRequest =
   | { type: "chunk"; seq: number; buffer: ArrayBuffer; len: number; first: boolean }
   | { type: "finish"; mode: IdMode };
 
-export type LaneReply = { type: "ack"; ack: ChunkAck } | { type: "part"; part: ParsedPart } | { type: "error"; message: string };
+export type LaneReply =
+  | { type: "ready" }
+  | { type: "ack"; ack: ChunkAck }
+  | { type: "part"; part: ParsedPart }
+  | { type: "error"; message: string };
 
 /** Apply one chunk to a parser and describe what it did. */
 export function parseChunk(parser: LineParser, seq: number, buffer: ArrayBuffer, len: number, first: boolean): ChunkAck {
+  const t0 = performance.now();
   const before = parser.counts;
   const edgesBefore = parser.edgeCount;
   if (first) parser.beginFile();
@@ -41,5 +48,6 @@ export function parseChunk(parser: LineParser, seq: number, buffer: ArrayBuffer,
     mode: parser.mode,
     maxId: parser.maxId,
     stopped: parser.stopped,
+    busyMs: performance.now() - t0,
   };
 }

@@ -13,6 +13,9 @@ export type { ChunkAck } from "./lane-protocol";
 export interface Lane {
   /** Chunks sent and not yet acknowledged. */
   inflight: number;
+  /** Able to take chunks without delay (a worker lane once its thread has started). */
+  readonly ready: boolean;
+  init(cfg: ParserConfig): void;
   send(chunk: Chunk, first: boolean): Promise<ChunkAck>;
   finish(mode: IdMode): Promise<ParsedPart>;
   close(): Promise<void>;
@@ -20,29 +23,40 @@ export interface Lane {
 
 export class LocalLane implements Lane {
   inflight = 0;
-  private readonly parser: LineParser;
-  constructor(cfg: ParserConfig) {
+  readonly ready = true;
+  private parser: LineParser | null = null;
+  init(cfg: ParserConfig): void {
     this.parser = new LineParser(cfg);
   }
   async send(chunk: Chunk, first: boolean): Promise<ChunkAck> {
-    return parseChunk(this.parser, chunk.seq, chunk.buffer, chunk.len, first);
+    return parseChunk(this.spent(), chunk.seq, chunk.buffer, chunk.len, first);
   }
   async finish(mode: IdMode): Promise<ParsedPart> {
-    this.parser.promote(mode);
-    return this.parser.finish();
+    const parser = this.spent();
+    parser.promote(mode);
+    return parser.finish();
+  }
+  private spent(): LineParser {
+    if (!this.parser) throw new Error("lane used before init");
+    return this.parser;
   }
   async close(): Promise<void> {}
 }
 
 export class WorkerLane implements Lane {
   inflight = 0;
+  ready = false;
   private readonly worker: Worker;
   private readonly waiting: Array<{ resolve: (r: LaneReply) => void; reject: (e: Error) => void }> = [];
   private failure: Error | null = null;
 
-  constructor(cfg: ParserConfig) {
+  constructor() {
     this.worker = startTsWorker(new URL("./parse-worker.ts", import.meta.url));
     this.worker.on("message", (r: LaneReply) => {
+      if (r.type === "ready") {
+        this.ready = true;
+        return;
+      }
       const w = this.waiting.shift();
       if (!w) return;
       if (r.type === "error") w.reject(new Error(r.message));
@@ -52,6 +66,9 @@ export class WorkerLane implements Lane {
     this.worker.on("exit", (code) => {
       if (this.waiting.length > 0) this.fail(new Error(`parse worker exited (code ${code})`));
     });
+  }
+
+  init(cfg: ParserConfig): void {
     this.post({ type: "init", cfg });
   }
 

@@ -31,6 +31,8 @@ port.on("message", (msg: LaneRequest) => {
   }
 });
 
+reply({ type: "ready" });
+
 function reply(r: LaneReply, transfer: ArrayBuffer[] = []): void {
   (port as NonNullable<typeof port>).postMessage(r, transfer);
 }
