@@ -32,6 +32,11 @@ export function setCsrfToken(token: string | null): void {
   csrfToken = token;
 }
 
+/** For requests made outside this client (the tus uploader). */
+export function getCsrfToken(): string | null {
+  return csrfToken;
+}
+
 function buildUrl(path: string, query: RequestOptions["query"]): string {
   const params = new URLSearchParams();
   for (const [key, value] of Object.entries(query ?? {})) {

@@ -8,7 +8,11 @@ const POLICY = {
   "outbox:view": ["admin"],
   "tokens:create": ["admin", "engineer"],
   "runs:submit": ["admin", "engineer"],
+  "runs:cancel": ["admin", "engineer"],
+  "runs:retry": ["admin", "engineer"],
   "graphs:create": ["admin", "engineer"],
+  "graphs:delete": ["admin", "engineer"],
+  "uploads:create": ["admin", "engineer"],
 } as const satisfies Record<string, readonly Role[]>;
 
 export type Permission = keyof typeof POLICY;
