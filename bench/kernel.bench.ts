@@ -105,6 +105,7 @@ for (const threads of opt.threads.split(",").map(Number)) {
   const pool = new RankPool({ threads });
   for (const kernel of opt.kernels.split(",") as KernelKind[]) {
     const perIter: number[] = [];
+    const ratios: number[] = [];
     let best = Infinity;
     for (let rep = 0; rep < Number(opt.reps); rep++) {
       const ms: number[] = [];
@@ -112,12 +113,16 @@ for (const threads of opt.threads.split(",").map(Number)) {
       perIter.push(median(ms));
       best = Math.min(best, ...ms);
       const ref = threads === 2 ? runRef() : null;
-      if (ref !== null) refMs.push(ref);
+      if (ref !== null) {
+        refMs.push(ref);
+        ratios.push(perIter[perIter.length - 1] / ref);
+      }
     }
     const med = median(perIter);
     const name = `pull:${kernel}:threads=${threads}:n=${g.n}`;
     console.log(
-      `${name.padEnd(36)} ${med.toFixed(2)} ms/iter (min ${best.toFixed(2)})  ${(g.m / med / 1e3).toFixed(0)} M edges/s  (rep medians ${perIter.map((x) => x.toFixed(1)).join(" ")})`,
+      `${name.padEnd(36)} ${med.toFixed(2)} ms/iter (min ${best.toFixed(2)})  ${(g.m / med / 1e3).toFixed(0)} M edges/s  (rep medians ${perIter.map((x) => x.toFixed(1)).join(" ")})` +
+        (ratios.length ? `  vs C next to it: ×${median(ratios).toFixed(2)} (${ratios.map((x) => x.toFixed(2)).join(" ")})` : ""),
     );
   }
   await pool.close();

@@ -6,7 +6,7 @@ import { join } from "node:path";
 import { Compression, ParquetFile, readParquet } from "parquet-wasm/node";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import type { NodeIds } from "../../workers/src/core/graph";
-import { rankOrder, ranks, topK } from "../../workers/src/output/rank-order";
+import { certainTop, rankOrder, ranks, topK } from "../../workers/src/output/rank-order";
 import { writeScores } from "../../workers/src/output/write-scores";
 import { prng, sameBits } from "./rank-test-graphs";
 
@@ -44,6 +44,19 @@ describe("rank order", () => {
     expect(Array.from(rankOrder(s))).toEqual([4, 3, 5, 2, 0, 1]);
     expect(Array.from(topK(s, 3))).toEqual([4, 3, 5]);
     expect(() => topK(s, -1)).toThrow(/k must be/);
+  });
+});
+
+describe("certain top-k positions", () => {
+  it("marks a position certain only when both neighbours are more than twice the bound away", () => {
+    const s = Float64Array.of(0.1, 0.3, 0.05, 0.29, 0.26);
+    // rank order: 1 (0.3), 3 (0.29), 4 (0.26), 0 (0.1), 2 (0.05)
+    const r = certainTop(s, 4, 0.01);
+    expect(Array.from(r.top)).toEqual([1, 3, 4, 0]);
+    expect(Array.from(r.certain)).toEqual([0, 0, 1, 1]);
+    expect(Array.from(certainTop(s, 5, 0).certain)).toEqual([1, 1, 1, 1, 1]);
+    expect(Array.from(certainTop(s, 2, 0.1).certain)).toEqual([0, 0]);
+    expect(() => certainTop(s, 2, NaN)).toThrow(/bound/);
   });
 });
 

@@ -121,3 +121,22 @@ export function topK(scores: Float64Array, k: number): Uint32Array {
   }
   return heap;
 }
+
+/**
+ * certain[i] = 1 when position i + 1 of the top k cannot change: with every score within `bound` of its exact
+ * value (‖x − π‖₁ ≤ bound), the node's score is more than 2·bound away from both neighbours in rank order.
+ * @example certainTop(Float64Array.of(0.5, 0.3, 0.2), 2, 0.01) // { top: [0, 1], certain: [1, 1] }
+ */
+export function certainTop(scores: Float64Array, k: number, bound: number): { top: Uint32Array; certain: Uint8Array } {
+  if (!(bound >= 0)) throw new RangeError(`bound must be ≥ 0. Value: ${bound}`);
+  const withNext = topK(scores, k + 1);
+  const top = withNext.subarray(0, Math.min(k, scores.length));
+  const certain = new Uint8Array(top.length);
+  for (let i = 0; i < top.length; i++) {
+    const s = scores[top[i]];
+    const above = i === 0 || scores[top[i - 1]] - s > 2 * bound;
+    const below = i + 1 >= withNext.length || s - scores[withNext[i + 1]] > 2 * bound;
+    certain[i] = above && below ? 1 : 0;
+  }
+  return { top: top.slice(), certain };
+}
