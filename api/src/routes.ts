@@ -1,9 +1,11 @@
 import { z } from "zod";
 import { activityRoutes } from "./features/activity/activity.routes";
 import { authRoutes } from "./features/auth/auth.routes";
+import { graphsRoutes } from "./features/graphs/graphs.routes";
 import { healthRoutes } from "./features/health/health.routes";
 import { invitesRoutes } from "./features/invites/invites.routes";
 import { outboxRoutes } from "./features/outbox/outbox.routes";
+import { runsRoutes } from "./features/runs/runs.routes";
 import { teamRoutes } from "./features/team/team.routes";
 import { tokensRoutes } from "./features/tokens/tokens.routes";
 import { uploadsRoutes } from "./features/uploads/uploads.routes";
@@ -33,5 +35,7 @@ export const ROUTES: readonly RouteDef[] = [
   ...activityRoutes,
   ...outboxRoutes,
   ...uploadsRoutes,
+  ...graphsRoutes,
+  ...runsRoutes,
   openApiRoute,
 ];

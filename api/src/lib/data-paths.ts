@@ -25,9 +25,11 @@ export const SCORE_FILE_NAMES: Record<ScoreFormat, string> = {
 
 /** What the runner writes into `runs.outputs` when a run ends with scores. Paths are relative to the data dir. */
 export interface RunOutputs {
-  files: Partial<Record<ScoreFormat, { path: string; bytes: number }>>;
-  /** Number of ranked nodes (rows of each score file). */
+  dir: string;
+  files: { format: ScoreFormat; path: string; bytes: number }[];
+  /** Number of ranked nodes (rows of each score file) and of top-k rows stored in `run_top`. */
   nodes: number;
+  topK: number;
 }
 
 export function dataPath(dataDir: string, relative: string): string {

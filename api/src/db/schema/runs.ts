@@ -42,7 +42,8 @@ export const runs = mysqlTable(
     claimedBy: varchar("claimed_by", { length: 128 }),
     heartbeatAt: at("heartbeat_at"),
     cancelRequestedAt: at("cancel_requested_at"),
-    /** Set by `POST /api/runs/:id/retry`; the runner resumes from the last checkpoint and clears it. */
+    /** Set by `POST /api/runs/:id/retry` on a needs-attention or failed run (status unchanged); the runner claims it,
+     *  resumes from the last checkpoint and clears it. */
     retryRequestedAt: at("retry_requested_at"),
     /** How many times the run was (re)started by a runner: claims, reclaims after an expired lease, retries. */
     attempts: int("attempts", { unsigned: true }).notNull().default(0),
