@@ -25,52 +25,66 @@ export interface ClaimedRun {
   previousRunner: string | null;
 }
 
+// Two steps, so that claiming locks one row: a plain read lists candidates, then each is locked by primary key
+// (SKIP LOCKED: a row another runner is claiming right now is passed over) and checked again before it is taken.
+const CANDIDATES = 8;
+
+function claimableRun(runnerId: string, leaseMs: number): SQL | undefined {
+  return and(
+    isNull(runs.deletedAt),
+    or(
+      eq(runs.status, "queued"),
+      and(eq(runs.status, "running"), or(isNull(runs.heartbeatAt), expired(runs.heartbeatAt, leaseMs), eq(runs.claimedBy, runnerId))),
+      and(inArray(runs.status, ["needs-attention", "failed"]), isNotNull(runs.retryRequestedAt)),
+    ),
+  );
+}
+
 /**
  * Claims the oldest run that is queued, retry-requested, or running under an expired lease (or under this runner's
  * own id: a runner only looks for work when it holds none, so such a claim is left over from its previous life).
  * Runs wait until their graph's ingest has ended.
  */
 export async function claimRun(db: Db, runnerId: string, leaseMs: number, teams: readonly number[] = []): Promise<ClaimedRun | null> {
-  return db.transaction(async (tx) => {
-    const found = await tx
-      .select({ id: runs.id, status: runs.status, claimedBy: runs.claimedBy, retry: runs.retryRequestedAt })
-      .from(runs)
-      .innerJoin(graphs, eq(graphs.id, runs.graphId))
-      .where(
-        and(
-          isNull(runs.deletedAt),
-          teams.length > 0 ? inArray(runs.teamId, [...teams]) : undefined,
-          inArray(graphs.status, ["ready", "rejected"]),
-          or(
-            eq(runs.status, "queued"),
-            and(eq(runs.status, "running"), or(isNull(runs.heartbeatAt), expired(runs.heartbeatAt, leaseMs), eq(runs.claimedBy, runnerId))),
-            and(inArray(runs.status, ["needs-attention", "failed"]), isNotNull(runs.retryRequestedAt)),
-          ),
-        ),
-      )
-      .orderBy(asc(runs.id))
-      .limit(1)
-      .for("update", { skipLocked: true });
-    const hit = found[0];
-    if (!hit) return null;
-    const kind: RunClaimKind = hit.status === "running" ? "reclaim" : hit.retry ? "retry" : "start";
-    await tx
-      .update(runs)
-      .set({
-        status: "running",
-        claimedBy: runnerId,
-        heartbeatAt: NOW,
-        attempts: sql`${runs.attempts} + 1`,
-        retryRequestedAt: null,
-        statusReason: null,
-        finishedAt: null,
-        startedAt: sql`COALESCE(${runs.startedAt}, CURRENT_TIMESTAMP(3))`,
-      })
-      .where(eq(runs.id, hit.id));
-    const [run] = await tx.select().from(runs).where(eq(runs.id, hit.id));
-    const [graph] = await tx.select().from(graphs).where(eq(graphs.id, run.graphId));
-    return { run, graph, kind, previousRunner: hit.status === "running" ? hit.claimedBy : null };
-  });
+  const candidates = await db
+    .select({ id: runs.id })
+    .from(runs)
+    .innerJoin(graphs, eq(graphs.id, runs.graphId))
+    .where(and(claimableRun(runnerId, leaseMs), teams.length > 0 ? inArray(runs.teamId, [...teams]) : undefined, inArray(graphs.status, ["ready", "rejected"])))
+    .orderBy(asc(runs.id))
+    .limit(CANDIDATES);
+  for (const { id } of candidates) {
+    const claimed = await db.transaction(
+      async (tx) => {
+        const [hit] = await tx
+          .select({ id: runs.id, status: runs.status, claimedBy: runs.claimedBy, retry: runs.retryRequestedAt })
+          .from(runs)
+          .where(and(eq(runs.id, id), claimableRun(runnerId, leaseMs)))
+          .for("update", { skipLocked: true });
+        if (!hit) return null;
+        const kind: RunClaimKind = hit.status === "running" ? "reclaim" : hit.retry ? "retry" : "start";
+        await tx
+          .update(runs)
+          .set({
+            status: "running",
+            claimedBy: runnerId,
+            heartbeatAt: NOW,
+            attempts: sql`${runs.attempts} + 1`,
+            retryRequestedAt: null,
+            statusReason: null,
+            finishedAt: null,
+            startedAt: sql`COALESCE(${runs.startedAt}, CURRENT_TIMESTAMP(3))`,
+          })
+          .where(eq(runs.id, id));
+        const [run] = await tx.select().from(runs).where(eq(runs.id, id));
+        const [graph] = await tx.select().from(graphs).where(eq(graphs.id, run.graphId));
+        return { run, graph, kind, previousRunner: hit.status === "running" ? hit.claimedBy : null };
+      },
+      { isolationLevel: "read committed" },
+    );
+    if (claimed) return claimed;
+  }
+  return null;
 }
 
 export interface ClaimedIngest {
@@ -79,44 +93,55 @@ export interface ClaimedIngest {
   reclaimed: boolean;
 }
 
+function claimableGraph(runnerId: string, leaseMs: number): SQL | undefined {
+  return and(
+    isNull(graphs.deletedAt),
+    or(
+      eq(graphs.status, "queued"),
+      and(eq(graphs.status, "ingesting"), or(isNull(graphs.heartbeatAt), expired(graphs.heartbeatAt, leaseMs), eq(graphs.claimedBy, runnerId))),
+    ),
+  );
+}
+
 /** Claims the oldest queued graph, or one whose ingest lease expired; marks it ingesting. */
 export async function claimIngest(db: Db, runnerId: string, leaseMs: number, teams: readonly number[] = []): Promise<ClaimedIngest | null> {
-  return db.transaction(async (tx) => {
-    const found = await tx
-      .select({ id: graphs.id, status: graphs.status })
-      .from(graphs)
-      .where(
-        and(
-          isNull(graphs.deletedAt),
-          teams.length > 0 ? inArray(graphs.teamId, [...teams]) : undefined,
-          or(
-            eq(graphs.status, "queued"),
-            and(eq(graphs.status, "ingesting"), or(isNull(graphs.heartbeatAt), expired(graphs.heartbeatAt, leaseMs), eq(graphs.claimedBy, runnerId))),
-          ),
-        ),
-      )
-      .orderBy(asc(graphs.id))
-      .limit(1)
-      .for("update", { skipLocked: true });
-    const hit = found[0];
-    if (!hit) return null;
-    await tx
-      .update(graphs)
-      .set({
-        status: "ingesting",
-        claimedBy: runnerId,
-        heartbeatAt: NOW,
-        ingestStartedAt: NOW,
-        progress: null,
-        rejection: null,
-        rejectReason: null,
-        finishedAt: null,
-      })
-      .where(eq(graphs.id, hit.id));
-    const [graph] = await tx.select().from(graphs).where(eq(graphs.id, hit.id));
-    const upload = graph.uploadId ? ((await tx.select().from(uploads).where(eq(uploads.id, graph.uploadId)))[0] ?? null) : null;
-    return { graph, upload, reclaimed: hit.status === "ingesting" };
-  });
+  const candidates = await db
+    .select({ id: graphs.id })
+    .from(graphs)
+    .where(and(claimableGraph(runnerId, leaseMs), teams.length > 0 ? inArray(graphs.teamId, [...teams]) : undefined))
+    .orderBy(asc(graphs.id))
+    .limit(CANDIDATES);
+  for (const { id } of candidates) {
+    const claimed = await db.transaction(
+      async (tx) => {
+        const [hit] = await tx
+          .select({ id: graphs.id, status: graphs.status })
+          .from(graphs)
+          .where(and(eq(graphs.id, id), claimableGraph(runnerId, leaseMs)))
+          .for("update", { skipLocked: true });
+        if (!hit) return null;
+        await tx
+          .update(graphs)
+          .set({
+            status: "ingesting",
+            claimedBy: runnerId,
+            heartbeatAt: NOW,
+            ingestStartedAt: NOW,
+            progress: null,
+            rejection: null,
+            rejectReason: null,
+            finishedAt: null,
+          })
+          .where(eq(graphs.id, id));
+        const [graph] = await tx.select().from(graphs).where(eq(graphs.id, id));
+        const upload = graph.uploadId ? ((await tx.select().from(uploads).where(eq(uploads.id, graph.uploadId)))[0] ?? null) : null;
+        return { graph, upload, reclaimed: hit.status === "ingesting" };
+      },
+      { isolationLevel: "read committed" },
+    );
+    if (claimed) return claimed;
+  }
+  return null;
 }
 
 /** Renews the run's lease; `held` is false when another runner took the run over (or it left `running`). */
