@@ -33,7 +33,7 @@ export const OneSidedSchema = z.object({ nodeId: z.string(), rank: z.number().in
 /**
  * Run b against run a over the nodes both ranked. Kendall tau-b and Spearman rho (on average ranks of the scores,
  * ties shared) are null with fewer than two common nodes or a constant side. Rank-biased overlap uses p = 0.9 over
- * the two top-k prefixes (extrapolated form).
+ * the two top-k prefixes (extrapolated form). Movers are common nodes in either top-k, by rank change.
  */
 export const ComparisonSchema = z.object({
   a: CompareRunSchema,

@@ -1,6 +1,7 @@
 import { z } from "zod";
 import { activityRoutes } from "./features/activity/activity.routes";
 import { authRoutes } from "./features/auth/auth.routes";
+import { compareRoutes } from "./features/compare/compare.routes";
 import { graphsRoutes } from "./features/graphs/graphs.routes";
 import { healthRoutes } from "./features/health/health.routes";
 import { invitesRoutes } from "./features/invites/invites.routes";
@@ -37,5 +38,6 @@ export const ROUTES: readonly RouteDef[] = [
   ...uploadsRoutes,
   ...graphsRoutes,
   ...runsRoutes,
+  ...compareRoutes,
   openApiRoute,
 ];
