@@ -86,6 +86,19 @@ describe("parallel parse", () => {
     expect(one.stats.duplicates).toBeGreaterThan(0);
   });
 
+  it.each([
+    ["direct", false],
+    ["hashed", true],
+  ])("matches for undirected graphs with self-loops kept (%s ids)", async (_name, hashIds) => {
+    const path = files.write(graphText(30_000));
+    const options = { directed: false, selfLoops: "keep" as const, weighted: true };
+    const one = await ingestEdgeFile(path, options, { hashIds, limits: { ...SMALL_CHUNKS, threads: 1 } });
+    const two = await ingestEdgeFile(path, options, { hashIds, limits: { ...SMALL_CHUNKS, threads: 2 } });
+    sameGraph(one.graph, two.graph);
+    sameStats(one, two);
+    expect(one.stats.selfLoops).toBeGreaterThan(0);
+  });
+
   it("numbers ids the same through the direct table and the hash tables", async () => {
     const path = files.write(graphText(20_000));
     const direct = await ingestEdgeFile(path, { weighted: true });

@@ -5,7 +5,18 @@
 // the set of input lines. Duplicate arcs stay adjacent in file order, so merged weights are summed in file order.
 
 import type { Graph, NodeIds } from "../core/graph";
-import type { ArcCounts, CanonicalEdges, EdgeSegment } from "../ingest/assemble";
+import type { ArcCounts, CanonicalEdges } from "../ingest/assemble";
+import {
+  balancedCuts,
+  countValues,
+  fillInLists,
+  NO_SOURCE,
+  scatterBySource,
+  type PassA,
+  type PassB,
+  type PassCount,
+  type PassSegment,
+} from "./build-passes";
 import { sharedF64, sharedU32 } from "./shared";
 
 export interface BuildPolicy {
@@ -25,7 +36,36 @@ export interface BuildReport {
   order: "out-degree" | "id";
 }
 
-export function buildGraph(input: CanonicalEdges, policy: BuildPolicy): { graph: Graph; report: BuildReport } {
+export type PassTask = { kind: "count"; task: PassCount } | { kind: "a"; task: PassA } | { kind: "b"; task: PassB };
+
+/** Runs one pass's slices (on worker threads, or here); resolves with each slice's result (merged arcs for pass B). */
+export interface PassRunner {
+  slices: number;
+  run(tasks: PassTask[]): Promise<number[]>;
+}
+
+export const LOCAL_RUNNER: PassRunner = {
+  slices: 1,
+  run: async (tasks) => tasks.map((t) => runPass(t)),
+};
+
+export function runPass(t: PassTask): number {
+  if (t.kind === "count") {
+    countValues(t.task);
+    return 0;
+  }
+  if (t.kind === "a") {
+    scatterBySource(t.task);
+    return 0;
+  }
+  return fillInLists(t.task);
+}
+
+export async function buildGraph(
+  input: CanonicalEdges,
+  policy: BuildPolicy,
+  runner: PassRunner = LOCAL_RUNNER,
+): Promise<{ graph: Graph; report: BuildReport }> {
   const n = input.n;
   const dropSelf = policy.selfLoops === "drop";
   const both = !policy.directed;
@@ -35,67 +75,100 @@ export function buildGraph(input: CanonicalEdges, policy: BuildPolicy): { graph:
   const counts = input.degrees ?? countArcs(input, dropSelf, both);
   const arcs = counts.arcs;
   if (arcs >= 2 ** 32) throw new RangeError(`too many edges for 32-bit offsets: ${arcs}`);
+  const slices = Math.max(1, Math.min(runner.slices, n));
 
   const perm = policy.renumber ? hubsFirst(counts.out) : identity(n);
-  const outStart = new Uint32Array(n + 1);
+  const outStart = sharedU32(n + 1);
   const inOffsets = sharedU32(n + 1);
+  const outByC = new Float64Array(n + 1);
   for (let c = 0; c < n; c++) {
     outStart[perm[c] + 1] = counts.out[c];
     inOffsets[perm[c] + 1] = counts.in[c];
+    outByC[c + 1] = outByC[c] + counts.out[c];
   }
   for (let u = 0; u < n; u++) {
     outStart[u + 1] += outStart[u];
     inOffsets[u + 1] += inOffsets[u];
   }
 
-  // Pass A: arcs grouped by final source id (stable: file order inside a group), carrying target and weight.
-  const bySrcDst = new Uint32Array(arcs);
-  const bySrcW = weighted ? new Float64Array(arcs) : null;
-  const cursor = outStart.slice(0, n);
-  const finalMaps = new Map<Uint32Array, Uint32Array>();
-  for (const seg of input.segments) {
-    let fmap = finalMaps.get(seg.map);
+  // Pass A, sliced by canonical source ranges of about equal arc counts.
+  const bySrcDst = sharedU32(arcs);
+  const bySrcW = weighted ? sharedF64(arcs) : null;
+  const cursor = sharedU32(n);
+  cursor.set(outStart.subarray(0, n));
+  const fmaps = new Map<Uint32Array, Uint32Array>();
+  const segments: PassSegment[] = input.segments.map((seg) => {
+    let fmap = fmaps.get(seg.map);
     if (!fmap) {
       fmap = compose(perm, seg.map);
-      finalMaps.set(seg.map, fmap);
+      fmaps.set(seg.map, fmap);
     }
-    scatterBySource(seg, fmap, dropSelf, both, cursor, bySrcDst, bySrcW);
-  }
+    return { src: seg.src, dst: seg.dst, weight: seg.weight, map: seg.map, fmap, xLo: null, xHi: null };
+  });
+  const cCuts = balancedCuts((c) => outByC[c], n, slices);
+  await runner.run(
+    cCuts.slice(0, -1).map((cLo, k) => {
+      const cHi = cCuts[k + 1];
+      const bounds = input.monotone ? xBounds(input.ids, cLo, cHi) : null;
+      return {
+        kind: "a" as const,
+        task: {
+          segments: bounds ? segments.map((s) => ({ ...s, xLo: bounds[0], xHi: bounds[1] })) : segments,
+          cLo,
+          cHi,
+          dropSelf,
+          both,
+          cursor,
+          bySrcDst,
+          bySrcW,
+        },
+      };
+    }),
+  );
 
-  // Pass B: walking sources in ascending order fills each in-list already sorted; an arc equal to the one just
-  // placed in its list is a duplicate and (when merging) adds its weight there. W_u sums u's arcs in file order.
+  // Pass B, sliced by target ranges of about equal in-arc counts (and source ranges for the out-weights). Weighted
+  // duplicates merge as they are placed; unweighted ones afterwards, in one sequential sweep that also produces the
+  // multiplicities (so no weight is written at random for an unweighted graph).
   const sources = sharedU32(arcs);
-  let weights = weighted || merge ? sharedF64(arcs) : null;
+  let weights = weighted ? sharedF64(arcs) : null;
   const outWeight = sharedF64(n);
-  const fillLast = new Uint32Array(2 * n);
+  const fillLast = sharedU32(2 * n);
   for (let v = 0; v < n; v++) {
     fillLast[2 * v] = inOffsets[v];
     fillLast[2 * v + 1] = NO_SOURCE;
   }
-  let merged = 0;
-  for (let u = 0; u < n; u++) {
-    let sum = 0;
-    for (let p = outStart[u], end = outStart[u + 1]; p < end; p++) {
-      const v = bySrcDst[p];
-      const w = bySrcW !== null ? bySrcW[p] : 1;
-      sum += w;
-      const at = fillLast[2 * v];
-      if (merge && fillLast[2 * v + 1] === u) {
-        (weights as Float64Array)[at - 1] += w;
-        merged++;
-        continue;
-      }
-      sources[at] = u;
-      if (weights !== null) weights[at] = w;
-      fillLast[2 * v] = at + 1;
-      fillLast[2 * v + 1] = u;
-    }
-    outWeight[u] = sum;
-  }
+  const vCuts = balancedCuts((v) => inOffsets[v], n, slices);
+  const uCuts = balancedCuts((u) => outStart[u], n, slices);
+  const mergedBySlice = await runner.run(
+    vCuts.slice(0, -1).map((vLo, k) => ({
+      kind: "b" as const,
+      task: {
+        n,
+        vLo,
+        vHi: vCuts[k + 1],
+        uLo: uCuts[k],
+        uHi: uCuts[k + 1],
+        merge: merge && weighted,
+        outStart,
+        bySrcDst,
+        bySrcW,
+        fillLast,
+        sources,
+        weights,
+        outWeight,
+      },
+    })),
+  );
+  let merged = mergedBySlice.reduce((a, b) => a + b, 0);
 
   let m = arcs;
   if (merged > 0) m = compact(n, inOffsets, fillLast, sources, weights);
-  else if (!weighted) weights = null;
+  else if (merge && !weighted) {
+    const r = mergeUnitArcs(n, inOffsets, sources);
+    m = r.m;
+    merged = arcs - r.m;
+    weights = r.weights;
+  }
   const graph: Graph = {
     n,
     m,
@@ -111,7 +184,12 @@ export function buildGraph(input: CanonicalEdges, policy: BuildPolicy): { graph:
   };
 }
 
-const NO_SOURCE = 0xffffffff;
+/** Stored-value bounds of canonical range [cLo, cHi) when values are the integer ids themselves. */
+function xBounds(ids: NodeIds, cLo: number, cHi: number): [number, number] {
+  if (ids.kind !== "integer") throw new Error("monotone numbering needs integer ids");
+  const at = (c: number) => (c < ids.ids.length ? Number(ids.ids[c]) : 2 ** 53);
+  return [at(cLo), at(cHi)];
+}
 
 /** Arc counts by canonical id (the hash path; the direct path counts while numbering). */
 function countArcs(input: CanonicalEdges, dropSelf: boolean, both: boolean): ArcCounts {
@@ -158,30 +236,36 @@ function compact(n: number, inOffsets: Uint32Array, fillLast: Uint32Array, sourc
   return wr;
 }
 
-function scatterBySource(
-  seg: EdgeSegment,
-  fmap: Uint32Array,
-  dropSelf: boolean,
-  both: boolean,
-  cursor: Uint32Array,
-  bySrcDst: Uint32Array,
-  bySrcW: Float64Array | null,
-): void {
-  const { src, dst, weight } = seg;
-  for (let i = 0; i < src.length; i++) {
-    const u = fmap[src[i]];
-    const v = fmap[dst[i]];
-    if (u === v && dropSelf) continue;
-    const w = weight !== null ? weight[i] : 1;
-    let p = cursor[u]++;
-    bySrcDst[p] = v;
-    if (bySrcW !== null) bySrcW[p] = w;
-    if (both && u !== v) {
-      p = cursor[v]++;
-      bySrcDst[p] = u;
-      if (bySrcW !== null) bySrcW[p] = w;
+/**
+ * Fold each run of equal sources in an in-list into one arc weighing the run's length (unit weights summed: the
+ * transition probabilities do not change). In place; rewrites inOffsets. Weights stay null without duplicates.
+ */
+function mergeUnitArcs(n: number, inOffsets: Uint32Array, sources: Uint32Array): { m: number; weights: Float64Array | null } {
+  let dups = 0;
+  for (let v = 0; v < n; v++) {
+    for (let e = inOffsets[v] + 1, end = inOffsets[v + 1]; e < end; e++) if (sources[e] === sources[e - 1]) dups++;
+  }
+  if (dups === 0) return { m: inOffsets[n], weights: null };
+  const weights = sharedF64(inOffsets[n] - dups);
+  let wr = 0;
+  for (let v = 0; v < n; v++) {
+    const start = inOffsets[v];
+    const end = inOffsets[v + 1];
+    inOffsets[v] = wr;
+    let prev = NO_SOURCE;
+    for (let e = start; e < end; e++) {
+      const u = sources[e];
+      if (u === prev) weights[wr - 1] += 1;
+      else {
+        sources[wr] = u;
+        weights[wr] = 1;
+        wr++;
+        prev = u;
+      }
     }
   }
+  inOffsets[n] = wr;
+  return { m: wr, weights };
 }
 
 /** perm[c] = final id: out-arc count descending, then canonical id ascending (stable counting sort). */
@@ -209,7 +293,7 @@ function identity(n: number): Uint32Array {
 }
 
 function compose(outer: Uint32Array, inner: Uint32Array): Uint32Array {
-  const r = new Uint32Array(inner.length);
+  const r = sharedU32(inner.length);
   for (let i = 0; i < inner.length; i++) r[i] = outer[inner[i]];
   return r;
 }

@@ -5,6 +5,8 @@
 // otherwise ids go through hash tables: one per part during the parse, merged here.
 
 import type { NodeIds } from "../core/graph";
+import { LOCAL_RUNNER, type PassRunner } from "../graph-store/build";
+import { sharedU32 } from "../graph-store/shared";
 import { BytesTable } from "./bytes-table";
 import type { IdMode, ParsedPart } from "./line-parser";
 import { U64Table } from "./u64-table";
@@ -23,6 +25,8 @@ export interface CanonicalEdges {
   segments: EdgeSegment[];
   /** Arc counts by canonical id under the policy, when numbering already counted them. */
   degrees?: ArcCounts | null;
+  /** Stored values are the integer ids themselves (canonical order = value order): slices filter by value. */
+  monotone?: boolean;
 }
 
 /** Arcs per node after the self-loop policy and undirected doubling, before duplicates merge. */
@@ -50,9 +54,9 @@ export interface Numbering {
   degrees: ArcCounts | null;
 }
 
-/** Largest id range numbered with a direct table: 5 bytes per possible id value. */
+/** Largest id range numbered with direct tables (12 bytes per possible id value, transient). */
 export function directLimit(edges: number): number {
-  return Math.max(1 << 24, Math.min(8 * edges, 2 ** 31));
+  return Math.max(1 << 24, Math.min(2 * edges, 2 ** 31));
 }
 
 /** The mode every part must be in before assembling: the most general one any part reached. */
@@ -63,10 +67,10 @@ export function commonMode(modes: IdMode[]): IdMode {
 }
 
 /** Canonical numbering for parts that are all "raw", all "int" or all "string". */
-export function numberNodes(parts: ParsedPart[], policy: CountPolicy): Numbering {
+export async function numberNodes(parts: ParsedPart[], policy: CountPolicy, runner: PassRunner = LOCAL_RUNNER): Promise<Numbering> {
   const mode = commonMode(parts.map((p) => p.mode));
   if (parts.some((p) => p.mode !== mode)) throw new Error("numberNodes: parts must share one id mode");
-  if (mode === "raw") return assembleRaw(parts, policy);
+  if (mode === "raw") return assembleRaw(parts, policy, runner);
   if (mode === "int") return assembleInt(parts);
   return assembleStrings(parts);
 }
@@ -77,27 +81,31 @@ export function numberNodes(parts: ParsedPart[], policy: CountPolicy): Numbering
  * directed out = sources − dropped self-loops (in likewise); undirected out = in = sources + targets − self-loops
  * counted twice (dropped) or once (kept, an undirected self-loop is one arc).
  */
-function assembleRaw(parts: ParsedPart[], policy: CountPolicy): Numbering {
+async function assembleRaw(parts: ParsedPart[], policy: CountPolicy, runner: PassRunner): Promise<Numbering> {
   const maxId = Math.max(-1, ...parts.map((p) => p.maxId));
-  const outRaw = new Uint32Array(maxId + 1);
-  const inRaw = new Uint32Array(maxId + 1);
-  let selfRaw: Uint32Array | null = null;
-  for (const p of parts) {
-    const { src, dst } = p;
-    for (let i = 0; i < src.length; i++) {
-      const x = src[i];
-      const y = dst[i];
-      outRaw[x]++;
-      inRaw[y]++;
-      if (x === y) {
-        selfRaw ??= new Uint32Array(maxId + 1);
-        selfRaw[x]++;
-      }
+  const edges = parts.reduce((s, p) => s + p.edges, 0);
+  const hasSelf = parts.some((p) => p.counts.selfLoops > 0);
+  // Count slices each need their own tables: only worth it while a table is small next to the edge arrays.
+  const slices = maxId + 1 <= edges ? Math.max(1, Math.min(runner.slices, parts.length)) : 1;
+  const tables = Array.from({ length: slices }, () => ({
+    outRaw: sharedU32(maxId + 1),
+    inRaw: sharedU32(maxId + 1),
+    selfRaw: hasSelf ? sharedU32(maxId + 1) : null,
+  }));
+  const bySlice: Array<Array<{ src: Uint32Array; dst: Uint32Array }>> = tables.map(() => []);
+  parts.forEach((p, k) => bySlice[k % slices].push({ src: p.src, dst: p.dst }));
+  await runner.run(tables.map((t, k) => ({ kind: "count" as const, task: { edges: bySlice[k], ...t } })));
+  const { outRaw, inRaw, selfRaw } = tables[0];
+  for (const t of tables.slice(1)) {
+    for (let x = 0; x <= maxId; x++) {
+      outRaw[x] += t.outRaw[x];
+      inRaw[x] += t.inRaw[x];
     }
+    if (selfRaw && t.selfRaw) for (let x = 0; x <= maxId; x++) selfRaw[x] += t.selfRaw[x];
   }
   let n = 0;
   for (let x = 0; x <= maxId; x++) if (outRaw[x] !== 0 || inRaw[x] !== 0) n++;
-  const map = new Uint32Array(maxId + 1);
+  const map = sharedU32(maxId + 1);
   const ids = new BigUint64Array(n);
   const out = new Uint32Array(n);
   const inn = new Uint32Array(n);
@@ -191,7 +199,7 @@ function assembleStrings(parts: ParsedPart[]): Numbering {
 }
 
 function compose(outer: Uint32Array, inner: Uint32Array): Uint32Array {
-  const r = new Uint32Array(inner.length);
+  const r = sharedU32(inner.length);
   for (let i = 0; i < inner.length; i++) r[i] = outer[inner[i]];
   return r;
 }

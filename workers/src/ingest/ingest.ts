@@ -5,7 +5,7 @@
 
 import { availableParallelism } from "node:os";
 import type { Graph } from "../core/graph";
-import { buildGraph } from "../graph-store/build";
+import { buildGraph, LOCAL_RUNNER, type PassRunner } from "../graph-store/build";
 import { commonMode, directLimit, numberNodes, type CanonicalEdges, type EdgeSegment } from "./assemble";
 import { describeBadLine, IngestError, type BadLine } from "./errors";
 import { LocalLane, WorkerLane, type ChunkAck, type Lane } from "./lanes";
@@ -123,7 +123,8 @@ export async function ingestEdgeFile(path: string, options: Partial<GraphOptions
     checkCounts(path, reader.size, counts, badLines, opts.maxBadLines);
 
     run.onProgress?.({ phase: "build", bytesRead: reader.bytesRead, totalBytes: reader.size, rows: counts.lines });
-    const numbering = numberNodes(parts, { directed: opts.directed, dropSelfLoops: opts.selfLoops === "drop" });
+    const runner = workerCount > 0 ? laneRunner(lanes.slice(0, workerCount)) : LOCAL_RUNNER;
+    const numbering = await numberNodes(parts, { directed: opts.directed, dropSelfLoops: opts.selfLoops === "drop" }, runner);
     const segments: EdgeSegment[] = acks.map((a) => {
       const k = partOf[a.seq];
       const part = parts[k];
@@ -134,14 +135,24 @@ export async function ingestEdgeFile(path: string, options: Partial<GraphOptions
         map: numbering.maps[k],
       };
     });
-    const canonical: CanonicalEdges = { n: numbering.n, ids: numbering.ids, segments, degrees: numbering.degrees };
+    const canonical: CanonicalEdges = {
+      n: numbering.n,
+      ids: numbering.ids,
+      segments,
+      degrees: numbering.degrees,
+      monotone: numbering.idPath === "direct",
+    };
     const tNumbered = performance.now();
-    const { graph, report } = buildGraph(canonical, {
+    const { graph, report } = await buildGraph(
+      canonical,
+      {
       directed: opts.directed,
       selfLoops: opts.selfLoops,
       duplicates: opts.duplicates,
       renumber: run.renumber ?? true,
-    });
+      },
+      runner,
+    );
     const degrees = degreeStats(graph);
     const tBuilt = performance.now();
 
@@ -194,6 +205,11 @@ export async function ingestEdgeFile(path: string, options: Partial<GraphOptions
     await Promise.all(lanes.map((l) => l.close()));
     await reader.close();
   }
+}
+
+/** Build passes sliced across the parse workers (they hold no state the passes need: all arrays are shared). */
+function laneRunner(lanes: Lane[]): PassRunner {
+  return { slices: lanes.length, run: (tasks) => Promise.all(tasks.map((t, i) => lanes[i].runPass(t))) };
 }
 
 function partLane(laneOf: number[], a: ChunkAck): number {

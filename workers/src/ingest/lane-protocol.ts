@@ -1,6 +1,7 @@
 // The parse-lane protocol: messages between the ingest driver and a parse worker, and the one function both sides use
 // to apply a chunk to a LineParser (so a local lane and a worker lane behave identically).
 
+import type { PassTask } from "../graph-store/build";
 import type { IdMode, LineParser, ParsedPart, ParserConfig } from "./line-parser";
 
 export interface ChunkAck {
@@ -21,12 +22,14 @@ export interface ChunkAck {
 export type LaneRequest =
   | { type: "init"; cfg: ParserConfig }
   | { type: "chunk"; seq: number; buffer: ArrayBuffer; len: number; first: boolean }
-  | { type: "finish"; mode: IdMode };
+  | { type: "finish"; mode: IdMode }
+  | { type: "pass"; pass: PassTask };
 
 export type LaneReply =
   | { type: "ready" }
   | { type: "ack"; ack: ChunkAck }
   | { type: "part"; part: ParsedPart }
+  | { type: "passed"; result: number }
   | { type: "error"; message: string };
 
 /** Apply one chunk to a parser and describe what it did. */

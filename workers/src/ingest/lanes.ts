@@ -3,6 +3,7 @@
 // file order can be restored) and hand over one ParsedPart at the end.
 
 import type { Worker } from "node:worker_threads";
+import { runPass, type PassTask } from "../graph-store/build";
 import { parseChunk, type ChunkAck, type LaneReply, type LaneRequest } from "./lane-protocol";
 import { LineParser, type IdMode, type ParsedPart, type ParserConfig } from "./line-parser";
 import type { Chunk } from "./source";
@@ -18,6 +19,8 @@ export interface Lane {
   init(cfg: ParserConfig): void;
   send(chunk: Chunk, first: boolean): Promise<ChunkAck>;
   finish(mode: IdMode): Promise<ParsedPart>;
+  /** Run one slice of a graph-build pass. */
+  runPass(task: PassTask): Promise<number>;
   close(): Promise<void>;
 }
 
@@ -35,6 +38,9 @@ export class LocalLane implements Lane {
     const parser = this.spent();
     parser.promote(mode);
     return parser.finish();
+  }
+  async runPass(task: PassTask): Promise<number> {
+    return runPass(task);
   }
   private spent(): LineParser {
     if (!this.parser) throw new Error("lane used before init");
@@ -84,6 +90,12 @@ export class WorkerLane implements Lane {
     const reply = await this.request({ type: "finish", mode });
     if (reply.type !== "part") throw new Error("parse worker: expected a part");
     return reply.part;
+  }
+
+  async runPass(task: PassTask): Promise<number> {
+    const reply = await this.request({ type: "pass", pass: task });
+    if (reply.type !== "passed") throw new Error("parse worker: expected a pass result");
+    return reply.result;
   }
 
   async close(): Promise<void> {

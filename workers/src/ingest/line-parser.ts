@@ -2,10 +2,12 @@
 // Ids go through three modes, only ever forward: "raw" (every id so far is an integer below 2^32: the edge arrays
 // hold the ids themselves; dense numbering happens once for the whole file), "int" (a larger integer appeared: local
 // dense ids from a U64Table) and "string" (a non-integer id appeared: local dense ids from a BytesTable).
+// Edge arrays live on SharedArrayBuffers so that graph-build passes on other threads can read them.
 // Integer lines take the fast scan; everything unusual goes through one general path that names each bad line's reason.
 // Invariants: a bad line adds no node and no edge; self-loops are counted and kept (the graph build applies the policy);
 // line numbers are 1-based over every physical line of this parser's range.
 
+import { sharedF64, sharedU32 } from "../graph-store/shared";
 import { BytesTable } from "./bytes-table";
 import { isAllDigits, isValidUtf8, latin1, parseU64Digits, parseWeight } from "./bytes";
 import type { BadLine, BadLineReason } from "./errors";
@@ -98,9 +100,9 @@ export class LineParser {
     this.st = {
       delim: d === "," ? 44 : d === "\t" ? 9 : 32,
       threeCols,
-      src: new Uint32Array(lines),
-      dst: new Uint32Array(lines),
-      weight: cfg.keepWeights && threeCols ? new Float64Array(lines) : null,
+      src: sharedU32(lines),
+      dst: sharedU32(lines),
+      weight: cfg.keepWeights && threeCols ? sharedF64(lines) : null,
       m: 0,
       lines: 0,
       dataRows: 0,
@@ -277,14 +279,14 @@ export class LineParser {
   private grow(): void {
     const st = this.st;
     const cap = Math.ceil(st.src.length * 1.5) + 1024;
-    const s = new Uint32Array(cap);
+    const s = sharedU32(cap);
     s.set(st.src);
     st.src = s;
-    const d = new Uint32Array(cap);
+    const d = sharedU32(cap);
     d.set(st.dst);
     st.dst = d;
     if (st.weight) {
-      const w = new Float64Array(cap);
+      const w = sharedF64(cap);
       w.set(st.weight);
       st.weight = w;
     }

@@ -1,6 +1,7 @@
 // Worker thread entry of a parse lane (see lanes.ts).
 
 import { parentPort } from "node:worker_threads";
+import { runPass } from "../graph-store/build";
 import { parseChunk, type LaneReply, type LaneRequest } from "./lane-protocol";
 import { LineParser } from "./line-parser";
 
@@ -10,6 +11,10 @@ let parser: LineParser | null = null;
 
 port.on("message", (msg: LaneRequest) => {
   try {
+    if (msg.type === "pass") {
+      reply({ type: "passed", result: runPass(msg.pass) });
+      return;
+    }
     if (msg.type === "init") {
       parser = new LineParser(msg.cfg);
       return;
@@ -24,7 +29,8 @@ port.on("message", (msg: LaneRequest) => {
     const part = parser.finish();
     const transfer = [part.src, part.dst, part.weight, part.keysLo, part.keysHi, part.keyBytes, part.keyOffsets]
       .filter((a): a is NonNullable<typeof a> => a !== null)
-      .map((a) => a.buffer as ArrayBuffer);
+      .map((a) => a.buffer)
+      .filter((b): b is ArrayBuffer => b instanceof ArrayBuffer);
     reply({ type: "part", part }, [...new Set(transfer)]);
   } catch (e) {
     reply({ type: "error", message: e instanceof Error ? (e.stack ?? e.message) : String(e) });
