@@ -2,6 +2,7 @@ import { existsSync, readFileSync } from "node:fs";
 import path from "node:path";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import type { Db, DbPool } from "../../api/src/lib/db";
+import { RankPool } from "../../workers/src/engine/rank-pool";
 import { startRunner, type Runner } from "../../workers/src/runner/main";
 import {
   createTeam,
@@ -34,6 +35,8 @@ describe("runner restarts", () => {
   let team: TestTeam;
   let graphId: number;
   let reference: { csv: string; residuals: number[] };
+  // One warm pool for every in-process runner of this file: a new pool spends seconds starting its threads.
+  let rankPool: RankPool;
 
   const scores = (runId: number) => readFileSync(path.join(dataDir, "runs", String(runId), "scores.csv"), "utf8");
 
@@ -75,7 +78,8 @@ describe("runner restarts", () => {
     ({ db, pool } = openDb());
     dataDir = tempDataDir();
     team = await createTeam(db, "restarts");
-    const runner = await startRunner(runnerConfig(dataDir, team.teamId));
+    rankPool = new RankPool({ threads: 2 });
+    const runner = await startRunner(runnerConfig(dataDir, team.teamId), { pool: rankPool });
     const upload = await createUpload(db, dataDir, team, "ferry-loop.txt", ringEdgeList(4_000));
     graphId = await queueGraph(db, team, upload.id);
     expect((await waitForGraph(db, graphId)).status).toBe("ready");
@@ -88,6 +92,7 @@ describe("runner restarts", () => {
 
   afterAll(async () => {
     await pool?.end();
+    await rankPool?.close();
     removeDir(dataDir);
   });
 
@@ -106,7 +111,7 @@ describe("runner restarts", () => {
     const releasedEvent = (await eventRows(db, runId)).find((e) => e.kind === "released");
     expect(releasedEvent?.details).toEqual({ k: released.lastCheckpointK });
 
-    const next = await startRunner(runnerConfig(dataDir, team.teamId));
+    const next = await startRunner(runnerConfig(dataDir, team.teamId), { pool: rankPool });
     const done = await finishWith(next, runId);
     expect(done.attempts).toBe(2);
     const resumed = (await eventRows(db, runId)).find((e) => e.kind === "resumed");
@@ -122,7 +127,7 @@ describe("runner restarts", () => {
     expect(orphan.status).toBe("running");
     expect(orphan.claimedBy).toBe(claimedBy);
 
-    const next = await startRunner(runnerConfig(dataDir, team.teamId));
+    const next = await startRunner(runnerConfig(dataDir, team.teamId), { pool: rankPool });
     const done = await finishWith(next, runId);
     expect(done.attempts).toBe(2);
     const events = await eventRows(db, runId);

@@ -49,11 +49,14 @@ class RunnerProcess implements Runner {
   #startedAt = new Date();
   #stopped: Promise<void> | null = null;
 
-  constructor(config: RunnerConfig, logger: Logger) {
+  #ownPool: boolean;
+
+  constructor(config: RunnerConfig, logger: Logger, pool: RankPool | undefined) {
     this.id = config.runnerId;
     const dbPool = createPool(config.db, 4);
     const db = createDb(dbPool);
     this.#closeDb = () => dbPool.end();
+    this.#ownPool = pool === undefined;
     const log = logger;
     let failing = 0;
     this.#ctx = {
@@ -61,7 +64,7 @@ class RunnerProcess implements Runner {
       db,
       logger: log,
       mailer: createRunnerMailer(config, db, log),
-      pool: new RankPool({ threads: config.threads }),
+      pool: pool ?? new RankPool({ threads: config.threads }),
       retry: <T>(what: string, fn: () => Promise<T>) =>
         retryDb(what, fn, {
           giveUp: () => this.#giveUpDb,
@@ -220,16 +223,19 @@ class RunnerProcess implements Runner {
     await writeHeartbeat(ctx.db, { ...this.#beatRecord(), currentRunId: null, currentGraphId: null, busy: 0 }, true).catch(() => undefined);
     forgetCachedGraph();
     ctx.mailer.close();
-    await ctx.pool.close().catch(() => undefined);
+    if (this.#ownPool) await ctx.pool.close().catch(() => undefined);
     await this.#closeDb().catch(() => undefined);
     ctx.logger.info("runner stopped");
   }
 }
 
-/** Starts a runner in this process; it works until stop() is called. */
-export async function startRunner(config: RunnerConfig, options: { logger?: Logger } = {}): Promise<Runner> {
+/**
+ * Starts a runner in this process; it works until stop() is called. A given pool (its worker threads already
+ * started) is used and left open; otherwise the runner makes one of config.threads threads and closes it on stop.
+ */
+export async function startRunner(config: RunnerConfig, options: { logger?: Logger; pool?: RankPool } = {}): Promise<Runner> {
   const logger = (options.logger ?? createLogger(config.logLevel)).child({ runner: config.runnerId });
-  const runner = new RunnerProcess(config, logger);
+  const runner = new RunnerProcess(config, logger, options.pool);
   try {
     await runner.start();
   } catch (error) {

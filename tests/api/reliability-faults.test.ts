@@ -1,0 +1,125 @@
+import { readFileSync } from "node:fs";
+import path from "node:path";
+import { asc, eq } from "drizzle-orm";
+import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { emails, runs, runShards } from "../../api/src/db/schema";
+import type { Db, DbPool } from "../../api/src/lib/db";
+import { RankPool } from "../../workers/src/engine/rank-pool";
+import { startRunner } from "../../workers/src/runner/main";
+import {
+  createTeam,
+  createUpload,
+  eventRows,
+  iterationRows,
+  openDb,
+  queueGraph,
+  queueRun,
+  removeDir,
+  ringEdgeList,
+  runnerConfig,
+  runRow,
+  tempDataDir,
+  waitFor,
+  waitForGraph,
+  waitForStatus,
+  type TestTeam,
+} from "./runner-support";
+
+// Shard failures: retried ones leave a trace and change nothing; one past the retry limit pauses the run as needs
+// attention, and a retry resumes from the checkpoint with the history intact and the unfaulted result.
+describe("shard faults", () => {
+  let db: Db;
+  let pool: DbPool;
+  let rankPool: RankPool;
+  let dataDir: string;
+  let team: TestTeam;
+  let graphId: number;
+  const params = { damping: 0.95, tolerance: 1e-10, maxIterations: 1_000, shards: 2 };
+  const scores = (runId: number) => readFileSync(path.join(dataDir, "runs", String(runId), "scores.csv"), "utf8");
+
+  beforeAll(async () => {
+    ({ db, pool } = openDb());
+    rankPool = new RankPool({ threads: 2 });
+    dataDir = tempDataDir();
+    team = await createTeam(db, "faults");
+    const runner = await startRunner(runnerConfig(dataDir, team.teamId), { pool: rankPool });
+    try {
+      const upload = await createUpload(db, dataDir, team, "ferry-loop.txt", ringEdgeList(9_000));
+      graphId = await queueGraph(db, team, upload.id);
+      expect((await waitForGraph(db, graphId)).status).toBe("ready");
+    } finally {
+      await runner.stop();
+    }
+  });
+
+  afterAll(async () => {
+    await pool?.end();
+    await rankPool?.close();
+    removeDir(dataDir);
+  });
+
+  it("a shard past its retry limit pauses the run as needs attention; retry resumes and matches an unfaulted run", async () => {
+    const reference = await queueRun(db, team, graphId, params);
+    const faulty = await queueRun(db, team, graphId, params, true);
+    const faults = [
+      { run: faulty, shard: 0, iteration: 5, attempt: 1, kind: "throw" as const },
+      { run: faulty, shard: 1, iteration: 12, attempt: 1, kind: "exit-worker" as const },
+      ...[1, 2, 3].map((attempt) => ({ run: faulty, shard: 1, iteration: 45, attempt, kind: "throw" as const })),
+    ];
+    const first = await startRunner(runnerConfig(dataDir, team.teamId, { faults }), { pool: rankPool });
+    let paused;
+    try {
+      expect((await waitForStatus(db, reference, ["converged", "failed"])).status).toBe("converged");
+      paused = await waitForStatus(db, faulty, ["needs-attention", "converged", "failed"]);
+    } finally {
+      await first.stop();
+    }
+
+    expect(paused.status).toBe("needs-attention");
+    expect(paused.stopReason).toBe("shard-failed");
+    expect(paused.iterations).toBe(44);
+    expect(paused.lastCheckpointK).toBe(44);
+    expect(paused.statusReason).toMatch(/^Shard 1 failed 3 times at iteration 45: injected fault: task threw/);
+    expect(paused.claimedBy).toBeNull();
+    const shards = await db.select().from(runShards).where(eq(runShards.runId, faulty)).orderBy(asc(runShards.shard));
+    expect(shards[1]).toMatchObject({ state: "failed", attempts: 3, lastError: "injected fault: task threw" });
+    const events = await eventRows(db, faulty);
+    const retried = events.filter((e) => e.kind === "shard-retried").map((e) => e.details);
+    expect(retried).toEqual([
+      { shard: 0, iteration: 5, attempts: 2, lastError: "injected fault: task threw" },
+      { shard: 1, iteration: 12, attempts: 2, lastError: expect.any(String) },
+    ]);
+    expect(events.at(-1)).toMatchObject({ level: "error", kind: "needs-attention", details: { shard: 1, attempts: 3, iteration: 45 } });
+    const mail = await waitFor("the needs-attention e-mail", async () => (await db.select().from(emails).where(eq(emails.toAddress, team.email)))[0]);
+    expect(mail.subject).toContain("needs attention");
+    const before = (await iterationRows(db, faulty)).map((r) => [r.k, r.residual]);
+    expect(before.map(([k]) => k)).toEqual(Array.from({ length: 44 }, (_, i) => i + 1));
+
+    // What POST /api/runs/:id/retry writes; a runner without faults picks it up.
+    await db.update(runs).set({ retryRequestedAt: new Date() }).where(eq(runs.id, faulty));
+    const second = await startRunner(runnerConfig(dataDir, team.teamId), { pool: rankPool });
+    let done;
+    try {
+      // The status stays needs-attention until a runner claims the retry request.
+      done = await waitFor("the retried run to end", async () => {
+        const row = await runRow(db, faulty);
+        return row.attempts === 2 && ["converged", "needs-attention", "failed"].includes(row.status) ? row : null;
+      }, 60_000);
+    } finally {
+      await second.stop();
+    }
+    expect(done.status).toBe("converged");
+    expect(done.attempts).toBe(2);
+    expect(done.retryRequestedAt).toBeNull();
+    const after = await iterationRows(db, faulty);
+    expect(after.map((r) => r.k)).toEqual(Array.from({ length: done.iterations }, (_, i) => i + 1));
+    expect(after.slice(0, 44).map((r) => [r.k, r.residual])).toEqual(before);
+    expect(after.map((r) => r.residual)).toEqual((await iterationRows(db, reference)).map((r) => r.residual));
+    expect(done.iterations).toBe((await runRow(db, reference)).iterations);
+    expect(scores(faulty)).toBe(scores(reference));
+    const kinds = (await eventRows(db, faulty)).map((e) => e.kind);
+    expect(kinds.slice(-3)).toEqual(["retry", "resumed", "converged"]);
+    const shardsAfter = await db.select().from(runShards).where(eq(runShards.runId, faulty));
+    expect(shardsAfter.every((s) => s.state === "done")).toBe(true);
+  });
+});
