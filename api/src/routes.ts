@@ -6,6 +6,8 @@ import { graphsRoutes } from "./features/graphs/graphs.routes";
 import { healthRoutes } from "./features/health/health.routes";
 import { invitesRoutes } from "./features/invites/invites.routes";
 import { outboxRoutes } from "./features/outbox/outbox.routes";
+import { overviewRoutes } from "./features/overview/overview.routes";
+import { preferencesRoutes } from "./features/preferences/preferences.routes";
 import { runsRoutes } from "./features/runs/runs.routes";
 import { teamRoutes } from "./features/team/team.routes";
 import { tokensRoutes } from "./features/tokens/tokens.routes";
@@ -39,5 +41,7 @@ export const ROUTES: readonly RouteDef[] = [
   ...graphsRoutes,
   ...runsRoutes,
   ...compareRoutes,
+  ...overviewRoutes,
+  ...preferencesRoutes,
   openApiRoute,
 ];
