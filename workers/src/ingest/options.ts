@@ -31,13 +31,13 @@ export interface IngestLimits {
   maxExpansionRatio: number;
   /** Gzip guard: absolute cap on decompressed bytes. */
   maxDecompressedBytes: number;
-  /** Parse threads for plain files (gzip streams are parsed on one thread). 0 = one per core, at most 8. */
+  /** Worker threads for parsing and building (gzip is decompressed on the calling thread). 0 = one per core, at most 8. */
   threads: number;
   /** Data lines read up front to decide delimiter, header, column count and id kind. */
   sampleLines: number;
   /** Bytes per read. */
   chunkBytes: number;
-  /** Plain files smaller than this are parsed on one thread (worker start-up would dominate). */
+  /** Inputs with fewer text bytes (gzip counted as 4× its size) are ingested on the calling thread alone. */
   parallelMinBytes: number;
 }
 
