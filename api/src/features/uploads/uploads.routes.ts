@@ -2,13 +2,22 @@ import type { Request } from "express";
 import { z } from "zod";
 import { UploadPageSchema, UploadQuerySchema } from "../../../contracts/uploads";
 import type { AppDeps } from "../../deps";
+import type { Principal } from "../../http/principal";
 import { defineRawRoute, defineRoute } from "../../http/route";
 import { AppError, ERRORS } from "../../lib/errors";
 import { handleTus, TUS_PATH, tusServer } from "./tus-server";
+import type { UploadRow } from "./uploads.repo";
 import { checkUploadSize, getUploadPage, ownedUpload, recordOffset, terminated } from "./uploads.service";
 
 const TusParamsSchema = z.strictObject({ tusId: z.string().regex(/^[0-9a-f]{32}$/, "not an upload id") });
 const TUS_PRODUCES = { "text/plain": "tus protocol answer (headers carry the state)" };
+
+/** Team scoping before the tus protocol checks, so another team's upload id is a plain 404 whatever the headers. */
+async function requireOwned(deps: AppDeps, principal: Principal, tusId: string): Promise<UploadRow> {
+  const row = await ownedUpload(deps, principal, tusId);
+  if (!row) throw new AppError(ERRORS.notFound, { message: "There is no such upload." });
+  return row;
+}
 
 /** Size checks that must answer before the tus handler stores a byte. */
 function checkCreation(deps: AppDeps, req: Request): void {
@@ -65,8 +74,9 @@ export const uploadsRoutes = [
     summary: "HEAD: tus offset query (Upload-Offset, Upload-Length); GET is not served",
     params: TusParamsSchema,
     produces: TUS_PRODUCES,
-    handler: async ({ deps, req, res }) => {
+    handler: async ({ deps, principal, params, req, res }) => {
       if (req.method !== "HEAD") throw new AppError(ERRORS.routeNotFound, { message: "Use HEAD for the upload offset, or GET /api/uploads." });
+      await requireOwned(deps, principal, params.tusId);
       await handleTus(deps, req, res);
     },
   }),
@@ -80,6 +90,7 @@ export const uploadsRoutes = [
     produces: TUS_PRODUCES,
     audit: "by-service",
     handler: async ({ deps, principal, params, req, res }) => {
+      await requireOwned(deps, principal, params.tusId);
       await handleTus(deps, req, res);
       const row = await ownedUpload(deps, principal, params.tusId);
       if (row && row.state === "uploading") {
@@ -98,9 +109,9 @@ export const uploadsRoutes = [
     produces: TUS_PRODUCES,
     audit: "by-service",
     handler: async ({ deps, principal, params, req, res, ip }) => {
-      const row = await ownedUpload(deps, principal, params.tusId);
+      const row = await requireOwned(deps, principal, params.tusId);
       await handleTus(deps, req, res);
-      if (row && res.statusCode === 204) await terminated(deps, principal, row, ip);
+      if (res.statusCode === 204) await terminated(deps, principal, row, ip);
     },
   }),
 ];
