@@ -1,5 +1,6 @@
 // Parsing edge-list files: formats, id kinds, headers, gzip, and the clear errors for files without edges.
 import { join } from "node:path";
+import { gzipSync } from "node:zlib";
 import { afterAll, describe, expect, it } from "vitest";
 import { IngestError } from "../../workers/src/ingest/errors";
 import { ingestEdgeFile } from "../../workers/src/ingest/ingest";
@@ -115,6 +116,24 @@ describe("layout", () => {
     expect(plain.stats.format.gzip).toBe(false);
     expect(edgeList(gz.graph)).toEqual(edgeList(plain.graph));
     expect(gz.stats.fingerprint).not.toBe(plain.stats.fingerprint);
+  });
+
+  it("refuses a gzip stream that expands too much, and names corrupt gzip data", async () => {
+    const bomb = files.write(`${"1 2\n".repeat(3_000_000)}`, "bomb.gz", true);
+    const ratio = (await ingestEdgeFile(bomb).catch((e: unknown) => e)) as IngestError;
+    expect(ratio).toBeInstanceOf(IngestError);
+    expect(ratio.code).toBe("gzip-bomb");
+    expect(ratio.message).toMatch(/expands more than 200x/);
+    const fine = await ingestEdgeFile(bomb, {}, { limits: { maxExpansionRatio: 100_000 } });
+    expect(fine.stats.rows).toBe(3_000_000);
+    const capped = (await ingestEdgeFile(bomb, {}, { limits: { maxExpansionRatio: 100_000, maxDecompressedBytes: 1 << 20 } }).catch(
+      (e: unknown) => e,
+    )) as IngestError;
+    expect(capped.code).toBe("gzip-bomb");
+    const gz = gzipSync(Buffer.from("1 2\n2 3\n".repeat(1000)));
+    gz[gz.length - 6] ^= 0xff;
+    const corrupt = (await ingestEdgeFile(files.write(gz)).catch((e: unknown) => e)) as IngestError;
+    expect(corrupt.code).toBe("gzip-corrupt");
   });
 
   it("fingerprints the raw bytes with sha256", async () => {
