@@ -51,8 +51,11 @@ function createAppRouter(queryClient: QueryClient) {
       children: [
         { index: true, lazy: () => import("./routes/app/overview").then(load) },
         { path: paths.app.graphs.path, lazy: () => import("./routes/app/graphs").then(load) },
+        { path: paths.app.graph.path, lazy: () => import("./routes/app/graph").then(load) },
         { path: paths.app.newRun.path, lazy: () => import("./routes/app/new-run").then(load) },
         { path: paths.app.runs.path, lazy: () => import("./routes/app/runs").then(load) },
+        { path: paths.app.run.path, lazy: () => import("./routes/app/run").then(load) },
+        { path: paths.app.runResults.path, lazy: () => import("./routes/app/run").then(load) },
         { path: paths.app.compare.path, lazy: () => import("./routes/app/compare").then(load) },
         { path: paths.app.team.path, lazy: () => import("./routes/app/team").then(load) },
         { path: paths.app.tokens.path, lazy: () => import("./routes/app/tokens").then(load) },

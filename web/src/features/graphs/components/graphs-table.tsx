@@ -1,6 +1,6 @@
 import { useState } from "react";
 import { Link } from "react-router-dom";
-import { GRAPH_STATUSES, type GraphQuery } from "#contracts/graphs";
+import { GRAPH_STATUSES, GraphStatusSchema, type GraphQuery } from "#contracts/graphs";
 import { StatusPill } from "../../../components/ui/badge";
 import { EmptyState } from "../../../components/ui/empty-state";
 import { ErrorBanner } from "../../../components/ui/error-banner";
@@ -65,7 +65,10 @@ export function GraphsTable() {
           aria-label="Status"
           value={filter.status ?? ""}
           options={STATUS_OPTIONS}
-          onChange={(event) => update({ status: (GRAPH_STATUSES as readonly string[]).includes(event.target.value) ? (event.target.value as GraphFilter["status"]) : undefined })}
+          onChange={(event) => {
+            const status = GraphStatusSchema.safeParse(event.target.value);
+            update({ status: status.success ? status.data : undefined });
+          }}
         />
         <button type="submit" className="h-7 rounded-md border border-rule-strong bg-paper-raised px-2.5 text-[0.8125rem] font-medium text-ink hover:bg-paper-sunken">
           Search

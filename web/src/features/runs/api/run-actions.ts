@@ -1,0 +1,31 @@
+import { useMutation, useQueryClient } from "@tanstack/react-query";
+import { api } from "../../../lib/api-client";
+import { iterationsQueryKey } from "./get-iterations";
+
+export function cancelRun({ id }: { id: number }) {
+  return api.post(`/runs/${id}/cancel`, {}, null);
+}
+
+export function retryRun({ id }: { id: number }) {
+  return api.post(`/runs/${id}/retry`, {}, null);
+}
+
+export function useCancelRun() {
+  const queryClient = useQueryClient();
+  return useMutation({
+    mutationFn: cancelRun,
+    onSuccess: (_data, { id }) => queryClient.invalidateQueries({ queryKey: ["runs", "detail", id] }),
+  });
+}
+
+export function useRetryRun() {
+  const queryClient = useQueryClient();
+  return useMutation({
+    mutationFn: retryRun,
+    onSuccess: (_data, { id }) => {
+      // The resumed run rewrites history from its checkpoint on; start the merged copy afresh.
+      queryClient.removeQueries({ queryKey: iterationsQueryKey(id) });
+      return queryClient.invalidateQueries({ queryKey: ["runs"] });
+    },
+  });
+}
