@@ -159,6 +159,24 @@ describe("portal routes: roles, teams, rejections, cancel and retry", () => {
     expect(events.items.map((e) => e.kind)).toContain("cancel-requested");
   });
 
+  it("streams a run's progress as server-sent events, ending once the run has finished", async () => {
+    const res = await fetch(`${server.url}/api/runs/${runId}/events/stream`, { headers: { authorization: `Bearer ${engineer.bearer}` } });
+    expect(res.headers.get("content-type")).toContain("text/event-stream");
+    const blocks = (await res.text()).trim().split("\n\n");
+    const events = blocks.map((block) => {
+      const lines = block.split("\n");
+      return {
+        event: lines.find((l) => l.startsWith("event: "))?.slice(7),
+        data: JSON.parse(lines.find((l) => l.startsWith("data: "))?.slice(6) ?? "null") as Record<string, unknown>,
+      };
+    });
+    const detail = RunDetailSchema.parse((await engineer.get(`/api/runs/${runId}`)).body);
+    expect(events[0]).toMatchObject({ event: "run", data: { id: runId, status: "converged" } });
+    expect(events.filter((e) => e.event === "iteration").map((e) => e.data.k)).toEqual(Array.from({ length: detail.iterations }, (_, i) => i + 1));
+    expect(events.some((e) => e.event === "event")).toBe(true);
+    expect(events.at(-1)).toEqual({ event: "end", data: { status: "converged" } });
+  });
+
   it("retries only needs-attention and failed runs", async () => {
     const res = await engineer.post<{ error: { code: string } }>(`/api/runs/${runId}/retry`);
     expect(res.status).toBe(409);

@@ -23,6 +23,7 @@ import { defineRawRoute, defineRoute, type RouteDef } from "../../http/route";
 import { safeFileStem, sendFileWithRanges } from "./download";
 import { getHistogram, getTop, lookupNode } from "./results.service";
 import { cancelRun, createRun, deleteRun, getEvents, getIterations, getRunDetail, getRunPage, getShards, requireRun, retryRun } from "./runs.service";
+import { streamRun } from "./run-stream";
 import { scoreFile } from "./score-files";
 
 const CONTENT_TYPES: Record<ScoreFormat, string> = {
@@ -123,6 +124,16 @@ export const runsRoutes = [
     query: RunEventQuerySchema,
     response: RunEventListSchema,
     handler: ({ deps, principal, params, query }) => getEvents(deps, principal, params.id, query.after, query.limit),
+  }),
+  defineRawRoute({
+    method: "get",
+    path: "/api/runs/:id/events/stream",
+    access: "viewer",
+    tag: "runs",
+    summary: "Server-sent events: `run` (detail on change), `iteration`, `event`, then `end` when the run has finished",
+    params: RunParamsSchema,
+    produces: { "text/event-stream": "run progress as server-sent events" },
+    handler: ({ deps, principal, params, req, res }) => streamRun(deps, principal, params.id, req, res),
   }),
   defineRoute({
     method: "post",
