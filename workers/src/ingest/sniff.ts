@@ -60,13 +60,18 @@ export function sniffFormat(sample: Uint8Array, options: GraphOptions, maxLines:
   const word = (r: (typeof rows)[number], k: number) =>
     r.n > k && HEADER_WORD.test(new TextDecoder().decode(sample.subarray(r.f[3 * k], r.f[3 * k + 1])).trim().toLowerCase());
 
+  // Digits in both id fields make the first row data whatever its length or weight, so that a bad first row (an id
+  // over 2^64-1, a NaN weight) is reported as a bad line instead of being dropped as a header.
+  const digitIds = (r: (typeof rows)[number]) =>
+    r.n >= 2 && isAllDigits(sample, r.f[0], r.f[1]) && isAllDigits(sample, r.f[3], r.f[4]);
+
   let header = false;
   if (options.header !== "auto") header = options.header;
   else if (rows.length > 0) {
     const first = rows[0];
     const rest = rows.slice(1).filter((r) => r.n === columns);
     if (first.n !== UNTERMINATED_QUOTE && word(first, 0) && word(first, 1)) header = true;
-    else if (rest.length > 0) {
+    else if (rest.length > 0 && !digitIds(first)) {
       const restInt = rest.every((r) => isInt(r, 0) && isInt(r, 1));
       if (restInt && !(isInt(first, 0) && isInt(first, 1))) header = true;
       else if (columns === 3 && first.n === 3 && !isNum(first, 2) && rest.filter((r) => isNum(r, 2)).length * 2 > rest.length) header = true;
