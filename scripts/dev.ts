@@ -23,6 +23,7 @@ async function main(): Promise<void> {
     [
       { name: "api", command: "tsx watch --clear-screen=false api/src/server.ts", prefixColor: "blue" },
       { name: "web", command: "vite", prefixColor: "magenta" },
+      { name: "runner", command: "tsx watch --clear-screen=false workers/src/runner/main.ts", prefixColor: "green" },
     ],
     { killOthersOn: ["failure"], prefix: "name", killSignal: "SIGTERM" },
   );

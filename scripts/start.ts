@@ -6,6 +6,7 @@ import { createDb, createPool, migrateDatabase } from "../api/src/lib/db";
 import { createLogger } from "../api/src/lib/logger";
 import { startServer } from "../api/src/server";
 import { connectionUrl, dbOptionsFromEnv, startMariadb, type DbInstance } from "./db";
+import { startRunnerProcess } from "./runner-process";
 import { DEMO_PASSWORD, DEMO_TEAM, DEMO_USERS, seedDemo } from "./seed";
 
 const ROOT = path.resolve(import.meta.dirname, "..");
@@ -18,11 +19,16 @@ export interface Sidecar {
 }
 
 /**
- * Hook for processes that run beside the API. The run scheduler / worker pool is started here (as its own child
- * process, given `STILLPOINT_DB_URL` and `STILLPOINT_DATA_DIR` in its environment) once it exists.
+ * Processes that run beside the API: the runner (ingests and runs, with its worker pool) as its own child process,
+ * given the database URL, the absolute data directory and the server's URL for links in its e-mails.
  */
-async function startSidecars(_config: Config): Promise<Sidecar[]> {
-  return [];
+async function startSidecars(config: Config, serverUrl: string): Promise<Sidecar[]> {
+  const env: NodeJS.ProcessEnv = {
+    ...process.env,
+    STILLPOINT_DATA_DIR: path.resolve(config.dataDir),
+    STILLPOINT_PUBLIC_URL: config.publicUrl ?? serverUrl,
+  };
+  return [startRunnerProcess(env)];
 }
 
 function buildWeb(): boolean {
@@ -61,7 +67,7 @@ async function main(): Promise<void> {
   if (config.demo) {
     const pool = createPool(config.db, 2);
     try {
-      await seedDemo(createDb(pool));
+      await seedDemo(createDb(pool), console.log, config.dataDir);
     } finally {
       await pool.end();
     }
@@ -69,7 +75,7 @@ async function main(): Promise<void> {
 
   const logger = createLogger(config.logLevel);
   const server = await startServer(config, logger);
-  const sidecars = await startSidecars(config);
+  const sidecars = await startSidecars(config, server.url);
 
   console.log(`\nStillpoint is running at ${server.url}${webBuilt ? "" : "  (API only: no web build)"}`);
   if (server.deps.outboxEnabled) console.log(`Outgoing mail is captured; admins read it at ${server.url}/outbox`);
