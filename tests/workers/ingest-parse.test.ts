@@ -38,6 +38,24 @@ describe("integer ids", () => {
     );
   });
 
+  it("reads thousands of random 64-bit ids exactly (fast path and general path agree)", async () => {
+    let x = 0x9e3779b97f4a7c15n;
+    const next = () => {
+      x ^= (x << 13n) & 0xffffffffffffffffn;
+      x ^= x >> 7n;
+      x ^= (x << 17n) & 0xffffffffffffffffn;
+      return x >> BigInt(Number(x & 63n));
+    };
+    const pairs = Array.from({ length: 3000 }, () => [next(), next()] as const);
+    const text = pairs.map(([a, b]) => `${a}\t${b}`).join("\n");
+    const expected = [...new Set(pairs.map(([a, b]) => `${a}>${b}`))].sort();
+    const r = await edgesOf(`${text}\n`, { selfLoops: "keep", duplicates: "merge" });
+    const plain = (g: typeof r.graph) => edgeList(g).map((e) => e.replace(/:\d+$/, "")).sort();
+    expect(plain(r.graph)).toEqual(expected);
+    const padded = await edgesOf(`${pairs.map(([a, b]) => `000${a} 0${b}`).join("\n")}\n`, { selfLoops: "keep" });
+    expect(plain(padded.graph)).toEqual(expected);
+  });
+
   it("treats leading zeros as the same integer", async () => {
     const r = await edgesOf("007 8\n7 9\n");
     expect(nodeIds(r.graph).sort()).toEqual(["7", "8", "9"]);

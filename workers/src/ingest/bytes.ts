@@ -1,28 +1,23 @@
 // Byte-level helpers for the line parser: exact unsigned 64-bit decimals, weights, UTF-8 validation.
 
-const U64_MAX = 0xffff_ffff_ffff_ffffn;
 const POW10 = [1, 10, 100, 1e3, 1e4, 1e5, 1e6, 1e7, 1e8, 1e9, 1e10, 1e11, 1e12, 1e13, 1e14, 1e15, 1e16, 1e17, 1e18, 1e19, 1e20, 1e21, 1e22];
 
 /**
- * Parse the all-digit field buf[s..e) as an unsigned 64-bit integer into out[0] (low 32 bits) and out[1] (high).
- * Values below 10^15 are exact in a double; longer fields go through BigInt. Returns false when above 2^64-1.
+ * Parse the all-digit field buf[s..e) as an unsigned 64-bit integer into out[0] (low 32 bits) and out[1] (high),
+ * exactly: the low half accumulates lo·10 + d (below 2^36) and carries into hi·10. Returns false above 2^64 − 1.
  */
 export function parseU64Digits(buf: Uint8Array, s: number, e: number, out: Uint32Array): boolean {
-  while (s < e - 1 && buf[s] === 48) s++;
-  if (e - s <= 15) {
-    let v = 0;
-    for (let i = s; i < e; i++) v = v * 10 + (buf[i] - 48);
-    out[0] = v >>> 0;
-    out[1] = Math.floor(v / 4294967296);
-    return true;
+  let lo = 0;
+  let hi = 0;
+  for (let i = s; i < e; i++) {
+    lo = lo * 10 + (buf[i] - 48);
+    const carry = Math.floor(lo / 4294967296);
+    lo -= carry * 4294967296;
+    hi = hi * 10 + carry;
+    if (hi >= 4294967296) return false;
   }
-  if (e - s > 20) return false;
-  let text = "";
-  for (let i = s; i < e; i++) text += String.fromCharCode(buf[i]);
-  const big = BigInt(text);
-  if (big > U64_MAX) return false;
-  out[0] = Number(big & 0xffff_ffffn);
-  out[1] = Number(big >> 32n);
+  out[0] = lo;
+  out[1] = hi;
   return true;
 }
 

@@ -12,6 +12,7 @@ import { BytesTable } from "./bytes-table";
 import { isAllDigits, isValidUtf8, latin1, parseU64Digits, parseWeight } from "./bytes";
 import type { BadLine, BadLineReason } from "./errors";
 import { scanIntegerLines, type ScanState } from "./fast-scan";
+import { scanWideLines } from "./fast-scan-wide";
 import { MAX_FIELDS, splitFields, unquote, UNTERMINATED_QUOTE } from "./fields";
 import { hasBom, type FileFormat } from "./sniff";
 import { U64Table } from "./u64-table";
@@ -77,6 +78,9 @@ export class LineParser {
   stopped = false;
   private readonly st: ScanState;
   private intTable: U64Table | null = null;
+  /** High id halves of the lines the wide scan just read, indexed from that scan's first edge. */
+  private hiSrc = new Uint32Array(0);
+  private hiDst = new Uint32Array(0);
   private commentLines = 0;
   private blankLines = 0;
   private headerLines = 0;
@@ -261,8 +265,15 @@ export class LineParser {
     while (p < e && !this.stopped) {
       if (this.strTable === null && !this.headerPending) {
         const m0 = st.m;
-        p = scanIntegerLines(buf, p, e, st);
-        if (this.intTable) this.mapRange(m0, st.m);
+        if (this.intTable) {
+          const need = Math.ceil((e - p) / 4) + 1;
+          if (this.hiSrc.length < need) {
+            this.hiSrc = new Uint32Array(need);
+            this.hiDst = new Uint32Array(need);
+          }
+          p = scanWideLines(buf, p, e, st, this.hiSrc, this.hiDst, m0);
+          this.mapWide(m0, st.m);
+        } else p = scanIntegerLines(buf, p, e, st);
         if (p >= e) return;
         if (st.m === st.src.length) {
           this.grow();
@@ -392,6 +403,17 @@ export class LineParser {
   private toInt(): void {
     this.intTable = new U64Table(Math.min(this.st.m + 16, 1 << 20));
     this.mapRange(0, this.st.m);
+  }
+
+  /** Replace the wide scan's (lo, hi) ids in edges [from, to) by local ids. */
+  private mapWide(from: number, to: number): void {
+    const table = this.intTable as U64Table;
+    const { src, dst } = this.st;
+    const { hiSrc, hiDst } = this;
+    for (let i = from; i < to; i++) {
+      src[i] = table.idOf(src[i], hiSrc[i - from]);
+      dst[i] = table.idOf(dst[i], hiDst[i - from]);
+    }
   }
 
   /** Replace raw ids (below 2^32) in edges [from, to) by local ids. */
