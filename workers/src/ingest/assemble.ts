@@ -144,7 +144,7 @@ function assembleInt(parts: ParsedPart[]): Numbering {
     const g = new Uint32Array(p.nodes);
     const lo = p.keysLo as Uint32Array;
     const hi = p.keysHi as Uint32Array;
-    for (let i = 0; i < p.nodes; i++) g[i] = table.idOf(lo[i], hi[i]);
+    for (let i = 0; i < p.nodes; i++) g[i] = table.idOf(lo[i] | 0, hi[i] | 0);
     return g;
   });
   const n = table.size;
@@ -152,7 +152,7 @@ function assembleInt(parts: ParsedPart[]): Numbering {
   const rank = new Uint32Array(n);
   for (let c = 0; c < n; c++) {
     const k = sorted[c];
-    rank[table.find(Number(k & 0xffff_ffffn), Number(k >> 32n))] = c;
+    rank[table.find(Number(k & 0xffff_ffffn) | 0, Number(k >> 32n) | 0)] = c;
   }
   return {
     n,

@@ -392,7 +392,7 @@ export class LineParser {
         if (pair[2] > st.maxId) st.maxId = pair[2];
         return this.emit(pair[0], pair[2], w);
       }
-      return this.emit(this.intTable.idOf(pair[0], pair[1]), this.intTable.idOf(pair[2], pair[3]), w);
+      return this.emit(this.intTable.idOf(pair[0] | 0, pair[1] | 0), this.intTable.idOf(pair[2] | 0, pair[3] | 0), w);
     }
     if (this.strTable === null) this.toStrings();
     const table = this.strTable as BytesTable;
@@ -411,8 +411,8 @@ export class LineParser {
     const { src, dst } = this.st;
     const { hiSrc, hiDst } = this;
     for (let i = from; i < to; i++) {
-      src[i] = table.idOf(src[i], hiSrc[i - from]);
-      dst[i] = table.idOf(dst[i], hiDst[i - from]);
+      src[i] = table.idOf(src[i] | 0, hiSrc[i - from] | 0);
+      dst[i] = table.idOf(dst[i] | 0, hiDst[i - from] | 0);
     }
   }
 
@@ -421,8 +421,8 @@ export class LineParser {
     const table = this.intTable as U64Table;
     const { src, dst } = this.st;
     for (let i = from; i < to; i++) {
-      src[i] = table.idOf(src[i], 0);
-      dst[i] = table.idOf(dst[i], 0);
+      src[i] = table.idOf(src[i] | 0, 0);
+      dst[i] = table.idOf(dst[i] | 0, 0);
     }
   }
 
