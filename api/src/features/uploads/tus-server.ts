@@ -63,6 +63,8 @@ export function tusServer(deps: AppDeps): Server {
     relativeLocation: true,
     respectForwardedHeaders: deps.config.trustProxy,
     exposedHeaders: [UPLOAD_ID_HEADER],
+    // The portal calls the API from its own origin; no cross-origin caller needs tus's default `*`.
+    allowedOrigins: [],
     namingFunction: () => randomBytes(16).toString("hex"),
     onIncomingRequest: guarded(async (req, uploadId) => {
       if (req.method === "POST") return;
