@@ -57,17 +57,22 @@ function bundled(url: URL): string | null {
   }
   mkdirSync(dir, { recursive: true });
   const tmp = `${out}.${process.pid}.tmp`;
-  const result = esbuild.buildSync({
-    entryPoints: [source],
-    bundle: true,
-    platform: "node",
-    format: "esm",
-    target: "node20",
-    outfile: tmp,
-    metafile: true,
-    absWorkingDir: dirname(source),
-    logLevel: "silent",
-  });
+  let result: ReturnType<Esbuild["buildSync"]>;
+  try {
+    result = esbuild.buildSync({
+      entryPoints: [source],
+      bundle: true,
+      platform: "node",
+      format: "esm",
+      target: "node20",
+      outfile: tmp,
+      metafile: true,
+      absWorkingDir: dirname(source),
+      logLevel: "silent",
+    });
+  } catch {
+    return null;
+  }
   const inputs = Object.keys(result.metafile?.inputs ?? {}).map((p) => {
     const path = join(dirname(source), p);
     const st = statSync(path);
