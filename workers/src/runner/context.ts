@@ -1,5 +1,6 @@
 // What every job of a runner shares, and where things live under the data directory.
 import path from "node:path";
+import { graphRelDir, runRelDir, uploadRelPath } from "../../../api/src/lib/data-paths";
 import type { Db } from "../../../api/src/lib/db";
 import type { Logger } from "../../../api/src/lib/logger";
 import type { Mailer } from "../../../api/src/lib/mail/mailer";
@@ -41,8 +42,8 @@ export function inDataDir(dataDir: string, stored: string): string {
 }
 
 export function uploadFile(dataDir: string, upload: { tusId: string; storagePath: string | null }): string {
-  return upload.storagePath ? inDataDir(dataDir, upload.storagePath) : path.join(dataDir, "uploads", upload.tusId);
+  return inDataDir(dataDir, upload.storagePath ?? uploadRelPath(upload.tusId));
 }
 
-export const graphStorePath = (graphId: number) => path.join("graphs", String(graphId));
-export const runDirPath = (runId: number) => path.join("runs", String(runId));
+export const graphStorePath = graphRelDir;
+export const runDirPath = runRelDir;

@@ -1,6 +1,7 @@
 // A finished run's results: score files (CSV, Arrow IPC, Parquet) in the run's folder and the top-k in MariaDB.
 import { mkdir, stat } from "node:fs/promises";
 import path from "node:path";
+import { SCORE_FILE_NAMES, scoreRelPath, type RunOutputs } from "../../../api/src/lib/data-paths";
 import type { NodeIds } from "../core/graph";
 import { topK } from "../output/rank-order";
 import { writeScores, type ScoreFormat } from "../output/write-scores";
@@ -10,20 +11,7 @@ import { idText } from "./seeds";
 
 export const SCORE_FORMATS: readonly ScoreFormat[] = ["csv", "arrow", "parquet"];
 
-export interface ScoreFileRecord {
-  format: ScoreFormat;
-  /** Relative to the data directory. */
-  path: string;
-  bytes: number;
-}
-
-/** What `runs.outputs` holds: the folder and one entry per score file. */
-export interface RunOutputs {
-  dir: string;
-  files: ScoreFileRecord[];
-  nodes: number;
-  topK: number;
-}
+export type { RunOutputs };
 
 export async function writeRunOutputs(
   ctx: RunnerContext,
@@ -36,11 +24,11 @@ export async function writeRunOutputs(
   const dir = runDirPath(run.id);
   const abs = path.resolve(ctx.config.dataDir, dir);
   await mkdir(abs, { recursive: true });
-  const files: ScoreFileRecord[] = [];
+  const files: RunOutputs["files"] = [];
   for (const format of SCORE_FORMATS) {
-    const name = `scores.${format}`;
-    await writeScores(path.join(abs, name), format, ids, scores, meta);
-    files.push({ format, path: path.join(dir, name), bytes: (await stat(path.join(abs, name))).size });
+    const file = path.join(abs, SCORE_FILE_NAMES[format]);
+    await writeScores(file, format, ids, scores, meta);
+    files.push({ format, path: scoreRelPath(run.id, format), bytes: (await stat(file)).size });
   }
   const order = topK(scores, Math.min(k, scores.length));
   const rows = Array.from(order, (v, i) => ({ rank: i + 1, nodeId: idText(ids, v), score: scores[v] }));
