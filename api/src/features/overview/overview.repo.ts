@@ -1,5 +1,5 @@
 import { and, asc, desc, eq, gt, inArray, isNull, like, or, sql } from "drizzle-orm";
-import { activity, graphs, runIterations, runnerHeartbeats, runs, users } from "../../db/schema";
+import { activity, graphs, runnerHeartbeats, runs, users } from "../../db/schema";
 import type { Executor } from "../../lib/db";
 
 export async function queuedRuns(db: Executor, teamId: number, limit: number) {
@@ -29,16 +29,6 @@ export async function runningRuns(db: Executor, teamId: number) {
     .innerJoin(graphs, eq(graphs.id, runs.graphId))
     .where(and(eq(runs.teamId, teamId), eq(runs.status, "running"), isNull(runs.deletedAt)))
     .orderBy(asc(runs.id));
-}
-
-export async function firstResidual(db: Executor, runId: number): Promise<number | null> {
-  const rows = await db
-    .select({ residual: runIterations.residual })
-    .from(runIterations)
-    .where(eq(runIterations.runId, runId))
-    .orderBy(asc(runIterations.k))
-    .limit(1);
-  return rows[0]?.residual ?? null;
 }
 
 /** Runners that beat within the window and have not said they stopped. */

@@ -4,8 +4,8 @@ import type { AppDeps } from "../../deps";
 import type { Principal } from "../../http/principal";
 import { runProgress } from "../runs/run-progress";
 import { parametersOf } from "../runs/runs.service";
-import { iterationTotals, lastIterations } from "../runs/runs.repo";
-import { firstResidual, liveRunners, pendingIngests, queuedRuns, recentWork, runningRuns, teamCounts, teamGraphIds, teamRunIds } from "./overview.repo";
+import { firstResidual, iterationTotals, lastIterations } from "../runs/runs.repo";
+import { liveRunners, pendingIngests, queuedRuns, recentWork, runningRuns, teamCounts, teamGraphIds, teamRunIds } from "./overview.repo";
 
 const LIST_LIMIT = 50;
 const RUNNER_WINDOW_SECONDS = 600;

@@ -112,7 +112,7 @@ export async function lastIterations(db: Executor, runId: number, count: number)
 
 export async function iterationTotals(db: Executor, runId: number) {
   const rows = await db
-    .select({ n: sql<number>`count(*)`, ms: sql<number | null>`sum(${runIterations.elapsedMs})`, first: sql<number | null>`min(${runIterations.k})` })
+    .select({ n: sql<number>`count(*)`, ms: sql<number | null>`sum(${runIterations.elapsedMs})` })
     .from(runIterations)
     .where(eq(runIterations.runId, runId));
   return { count: Number(rows[0]?.n ?? 0), totalMs: Number(rows[0]?.ms ?? 0) };

@@ -30,7 +30,6 @@ const MAX_NAME = 200;
  */
 export function displayName(raw: string | null | undefined): string {
   const last = (raw ?? "").split(/[\\/]/).pop() ?? "";
-  // eslint-disable-next-line no-control-regex
   const clean = last.replace(/[\u0000-\u001f\u007f-\u009f\u200e\u200f\u202a-\u202e\u2066-\u2069]/g, "").trim();
   const name = clean === "." || clean === ".." ? "" : clean;
   return (name || "upload").slice(0, MAX_NAME);
