@@ -179,6 +179,7 @@ async function main(): Promise<void> {
       ours: o,
       reference: c,
       bytesPerEdge: o.graphBytes / o.edges,
+      peakRssPerGraphByte: o.peakRssBytes / o.graphBytes,
       edgesPerSecondPerIteration: o.edges / (o.perIterationMs / 1000),
       ratios: c
         ? {
@@ -198,7 +199,7 @@ async function main(): Promise<void> {
         `${c ? `   reference ${fmt(c.perIterationMs, 2)} ms × ${c.iterations}` : ""}`,
     );
     console.log(`  throughput  ${fmt(row.edgesPerSecondPerIteration / 1e6, 0)} M edges/s per iteration, ${o.threads} threads`);
-    console.log(`  graph       ${fmt(row.bytesPerEdge, 2)} bytes per edge prepared`);
+    console.log(`  graph       ${fmt(row.bytesPerEdge, 2)} bytes per edge prepared (${mib(o.graphBytes)}); peak RSS ${fmt(row.peakRssPerGraphByte, 2)}× that`);
     console.log(`  peak RSS    ${mib(o.peakRssBytes)}${c ? `   reference ${mib(c.peakRssBytes)}` : ""}`);
     console.log(`  wall        ${fmt(o.wallMs, 0)} ms end to end${c ? `   reference ${fmt(c.wallMs, 0)} ms` : ""}`);
     if (row.ratios) {
