@@ -70,8 +70,8 @@ describe("API input validation", () => {
     server = await startTestServer({ STILLPOINT_DATA_DIR: dataDir });
     const [a, b] = await createTeams(server, ["input-own", "input-other"]);
     runner = await runnerFor(dataDir, [a, b]);
-    own = await seedTeam(server, a, 7);
-    other = await seedTeam(server, b, 11);
+    own = await seedTeam(server, a, { seed: 7 });
+    other = await seedTeam(server, b, { seed: 11 });
     // Runs submitted below stay queued: nothing should execute them.
     await runner.stop();
     admin = await signedIn(server, a.email.admin);

@@ -31,11 +31,21 @@ export function runnerFor(dataDir: string, teams: readonly TestTeam[]): Promise<
   return startRunner(runnerConfig(dataDir, teams[0].teamId, { teams: teams.map((t) => t.teamId) }));
 }
 
+export interface SeedOptions {
+  /** Edge list text; default: a random integer graph of SEEDED_NODES nodes. */
+  edges?: string;
+  graphName?: string;
+  filename?: string;
+  seed?: number;
+}
+
 /** Upload, ingest and rank a small graph for the team; the runner must serve the team. */
-export async function seedTeam(server: RunningServer, team: TestTeam, seed = 7): Promise<SeededTeam> {
+export async function seedTeam(server: RunningServer, team: TestTeam, options: SeedOptions = {}): Promise<SeededTeam> {
+  const seed = options.seed ?? 7;
   const api = await tokenClient(server, team.email.engineer);
-  const upload = await tusUpload(server, { bearer: api.bearer }, Buffer.from(randomEdgeList(SEEDED_NODES, seed)), "kestrel-harbour-links.txt");
-  const graph = await api.post<{ id: number }>("/api/graphs", { uploadId: upload.uploadId, name: `Harbour links ${seed}` });
+  const edges = options.edges ?? randomEdgeList(SEEDED_NODES, seed);
+  const upload = await tusUpload(server, { bearer: api.bearer }, Buffer.from(edges), options.filename ?? "kestrel-harbour-links.txt");
+  const graph = await api.post<{ id: number }>("/api/graphs", { uploadId: upload.uploadId, name: options.graphName ?? `Harbour links ${seed}` });
   if (graph.status !== 202) throw new Error(`graph creation failed: ${graph.status} ${JSON.stringify(graph.body)}`);
   const ready = await waitFor("the seeded graph", async () => {
     const detail = GraphDetailSchema.parse((await api.get(`/api/graphs/${graph.body.id}`)).body);
