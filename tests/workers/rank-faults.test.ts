@@ -32,7 +32,7 @@ describe("retries", () => {
     ],
   ];
   for (const [name, faults] of cases) {
-    it(`${name} is retried and the scores keep their bits`, async () => {
+    it(`${name} is retried and the scores keep their bits`, { timeout: 120_000 }, async () => {
       const seen: IterationProgress[] = [];
       const r = await rank(g, params, { pool, retry, faults, onIteration: (p) => void seen.push(p) });
       expect(r.stopReason).toBe("converged");
@@ -46,7 +46,7 @@ describe("retries", () => {
     });
   }
 
-  it("past the attempt limit the run needs attention and keeps the last good iterate", async () => {
+  it("past the attempt limit the run needs attention and keeps the last good iterate", { timeout: 120_000 }, async () => {
     const faults: FaultPlan[] = [1, 2, 3].map((attempt) => ({ shard: 1, iteration: 4, attempt, kind: "throw" }));
     const r = await rank(g, params, { pool, retry, faults });
     expect(r.stopReason).toBe("needs-attention");
@@ -55,6 +55,25 @@ describe("retries", () => {
     expect(r.iterations).toBe(3);
     const three = await rank(g, { ...params, maxIterations: 3 }, { pool });
     expect(sameBits(r.scores, three.scores)).toBe(true);
+  });
+});
+
+describe("deadlines", () => {
+  it("count running time only: tasks queued behind a booting worker are not retried", { timeout: 120_000 }, async () => {
+    const fresh = new RankPool({ threads: 1 });
+    try {
+      const seen: IterationProgress[] = [];
+      const r = await rank(g, { ...params, shards: 3 }, {
+        pool: fresh,
+        retry: { attempts: 1, backoffMs: 1, taskTimeoutMs: 500 },
+        onIteration: (p) => void seen.push(p),
+      });
+      expect(r.stopReason).toBe("converged");
+      expect(seen[0].shards.map((st) => st.attempts)).toEqual([1, 1, 1]);
+      expect(sameBits(r.scores, clean.scores)).toBe(true);
+    } finally {
+      await fresh.close();
+    }
   });
 });
 
@@ -69,7 +88,7 @@ describe("cancel, checkpoints and resume", () => {
   });
 
   // The deadline (60 s) is past the test timeout: only an abort of the running task lets this finish.
-  it("canceling during a hung task aborts it instead of waiting for its deadline", async () => {
+  it("canceling during a hung task aborts it instead of waiting for its deadline", { timeout: 50_000 }, async () => {
     const ac = new AbortController();
     const faults: FaultPlan[] = [{ shard: 0, iteration: 2, attempt: 1, kind: "hang" }];
     setTimeout(() => ac.abort(), 300);

@@ -102,6 +102,7 @@ describe("wasm kernel = JS kernel, bit for bit", () => {
       it(`js and wasm runs agree (${JSON.stringify(p)})`, async () => {
         const js = await rank(g, { ...PARAMS, ...p, shards: 3 }, { pool, kernel: "js" });
         const wasm = await rank(g, { ...PARAMS, ...p, shards: 2 }, { pool, kernel: "wasm" });
+        expect([js.kernel, wasm.kernel]).toEqual(["js", "wasm"]);
         expect(js.iterations).toBe(wasm.iterations);
         expect(sameBits(js.scores, wasm.scores)).toBe(true);
       });

@@ -18,7 +18,9 @@ export interface RankParams {
   dangling: "teleport" | "uniform";
   teleport: { kind: "uniform" } | { kind: "seeds"; seeds: { node: number; weight: number }[] };
   weighted: boolean;
+  /** Threads of the pool rank() creates when none is passed (default: available cores); ignored with opts.pool. */
   threads?: number;
+  /** Target ranges per step (default: the pool's threads); any count gives the same bits. */
   shards?: number;
 }
 
@@ -57,6 +59,8 @@ export interface RankResult {
   residuals: number[];
   danglingMass: number[];
   timings: { setupMs: number; iterateMs: number; perIterationMs: number };
+  /** The step kernel that ran. */
+  kernel?: "js" | "wasm";
   failure?: { shard: number; attempts: number; lastError: string };
 }
 
@@ -114,6 +118,7 @@ async function iterate(graph: Graph, params: RankParams, hooks: RankHooks, pool:
   const runId = `${process.pid}-${++runCounter}`;
   const plan = planShards(s.views.inOffsets, s.n, params.shards ?? pool.threads, s.blockNodes);
   const shards: ShardState[] = plan.map((r) => ({ ...r, state: "queued", attempts: 0 }));
+  const started = new SharedArrayBuffer(4 * Math.max(1, shards.length));
   const retry = hooks.retry ?? DEFAULT_RETRY;
   const faults = hooks.faults ?? [];
   const alpha = params.damping;
@@ -142,7 +147,7 @@ async function iterate(graph: Graph, params: RankParams, hooks: RankHooks, pool:
       st.attempts = 0;
       delete st.lastError;
     }
-    const task = { runId, buffers: s.buffers, cur: s.cur, scalars, blockNodes: s.blockNodes };
+    const task = { runId, buffers: s.buffers, started, cur: s.cur, scalars, blockNodes: s.blockNodes };
     const outcomes = await Promise.all(
       shards.map((st) => runShard(pool, { ...task, start: st.start, end: st.end }, st, k + 1, retry, faults, hooks.signal)),
     );
@@ -195,6 +200,7 @@ async function iterate(graph: Graph, params: RankParams, hooks: RankHooks, pool:
     residuals,
     danglingMass,
     timings: { setupMs: t1 - t0, iterateMs: t2 - t1, perIterationMs: steps ? (t2 - t1) / steps : 0 },
+    kernel: s.kernel,
     ...(failure ? { failure } : {}),
   };
 }

@@ -34,13 +34,38 @@ export type ShardOutcome = "done" | "failed" | "canceled";
 
 class Deadline extends Error {}
 
+let attemptCounter = 0;
+const START_POLL_MS = 250;
+const MAX_START_WAIT_MS = 60_000;
+
+/**
+ * Aborts `ac` once the task has run `ms` after a worker picked it up (the worker sets started[shard] = attempt).
+ * Time spent queued or waiting for a worker to boot does not count, up to `maxWaitMs`.
+ */
+function armDeadline(ac: AbortController, started: Int32Array, shard: number, attempt: number, ms: number, maxWaitMs: number) {
+  const poll = Math.min(ms, START_POLL_MS);
+  let waited = 0;
+  let timer: ReturnType<typeof setTimeout>;
+  const tick = () => {
+    if (Atomics.load(started, shard) === attempt) {
+      timer = setTimeout(() => ac.abort(new Deadline(`task passed its ${ms} ms deadline`)), ms);
+    } else if ((waited += poll) >= maxWaitMs) {
+      ac.abort(new Deadline(`task did not start within ${waited} ms`));
+    } else {
+      timer = setTimeout(tick, poll);
+    }
+  };
+  timer = setTimeout(tick, poll);
+  return () => clearTimeout(timer);
+}
+
 /**
  * Attempts the task up to policy.attempts times; attempt a waits backoffMs·2^(a−2) first (a ≥ 2). Safe because the
  * task is a pure function of its inputs: a retry, or a terminated attempt that still writes, writes the same bits.
  */
 export async function runShard(
   pool: RankPool,
-  task: Omit<ShardTask, "fault">,
+  task: Omit<ShardTask, "fault" | "shard" | "attempt">,
   st: ShardState,
   iteration: number,
   policy: RetryPolicy,
@@ -61,11 +86,16 @@ export async function runShard(
     st.attempts = attempt;
     const fault = faults.find((f) => f.shard === st.index && f.iteration === iteration && f.attempt === attempt);
     const ac = new AbortController();
-    const timer = setTimeout(() => ac.abort(new Deadline(`task passed its ${policy.taskTimeoutMs} ms deadline`)), policy.taskTimeoutMs);
+    attemptCounter = (attemptCounter % 0x7fffffff) + 1;
+    const id = attemptCounter;
+    const started = new Int32Array(task.started);
+    const ms = policy.taskTimeoutMs;
+    const disarm = armDeadline(ac, started, st.index, id, ms, Math.max(MAX_START_WAIT_MS, 10 * ms));
     const onCancel = () => ac.abort(new Error("run canceled"));
     cancel?.addEventListener("abort", onCancel, { once: true });
     try {
-      const done = await pool.run(fault ? { ...task, fault: fault.kind } : task, ac.signal);
+      const attemptTask: ShardTask = { ...task, shard: st.index, attempt: id, ...(fault ? { fault: fault.kind } : {}) };
+      const done = await pool.run(attemptTask, ac.signal);
       st.state = "done";
       st.worker = done.threadId;
       return "done";
@@ -74,7 +104,7 @@ export async function runShard(
       const reason: unknown = ac.signal.aborted ? ac.signal.reason : err;
       st.lastError = reason instanceof Error ? reason.message : String(reason);
     } finally {
-      clearTimeout(timer);
+      disarm();
       cancel?.removeEventListener("abort", onCancel);
     }
   }

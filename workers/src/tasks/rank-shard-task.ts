@@ -32,6 +32,10 @@ export interface RunBuffers {
 export interface ShardTask {
   runId: string;
   buffers: RunBuffers;
+  /** started[shard] = attempt id once a worker begins the task: deadlines count running time, not queueing. */
+  started: SharedArrayBuffer;
+  shard: number;
+  attempt: number;
   start: number;
   end: number;
   cur: 0 | 1;

@@ -6,6 +6,7 @@ import { cachedRun, type ShardDone, type ShardTask } from "./rank-shard-task";
 import { wasmStep } from "./wasm-step";
 
 export default function rankShard(t: ShardTask): ShardDone {
+  Atomics.store(new Int32Array(t.started), t.shard, t.attempt);
   if (t.fault) injectFault(t.fault);
   const { views: v, wasm } = cachedRun(t.runId, t.buffers);
   const [x0, x1, c0, c1] = [v.x[t.cur], v.x[1 - t.cur], v.c[t.cur], v.c[1 - t.cur]];
