@@ -21,7 +21,9 @@ export function createLogger(level: string, destination?: DestinationStream): Lo
 
 // Invite and reset links carry their secret in the path.
 const SECRET_IN_PATH = /(\/api\/invites\/|\/api\/auth\/password-reset\/)[^/?#]+/g;
+// An API token pasted into a URL by mistake (the API refuses it there, but the request is still logged).
+const API_TOKEN = /spt_[A-Za-z0-9_-]+/g;
 
 export function redactUrl(url: string): string {
-  return url.replace(SECRET_IN_PATH, "$1[redacted]");
+  return url.replace(SECRET_IN_PATH, "$1[redacted]").replace(API_TOKEN, "spt_[redacted]");
 }
