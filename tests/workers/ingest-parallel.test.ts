@@ -87,11 +87,13 @@ describe("parallel parse", () => {
   });
 
   it.each([
-    ["direct", false],
-    ["hashed", true],
-  ])("matches for undirected graphs with self-loops kept (%s ids)", async (_name, hashIds) => {
+    ["direct ids, weighted", false, true],
+    ["hashed ids, weighted", true, true],
+    ["direct ids, unweighted", false, false],
+    ["hashed ids, unweighted", true, false],
+  ])("matches for undirected graphs with self-loops kept (%s)", async (_name, hashIds, weighted) => {
     const path = files.write(graphText(30_000));
-    const options = { directed: false, selfLoops: "keep" as const, weighted: true };
+    const options = { directed: false, selfLoops: "keep" as const, weighted };
     const one = await ingestEdgeFile(path, options, { hashIds, limits: { ...SMALL_CHUNKS, threads: 1 } });
     const two = await ingestEdgeFile(path, options, { hashIds, limits: { ...SMALL_CHUNKS, threads: 2 } });
     sameGraph(one.graph, two.graph);

@@ -130,6 +130,76 @@ export function fillInLists(t: PassB): number {
   return merged;
 }
 
+/**
+ * Unweighted graphs skip pass A: arcs whose target has canonical id in [cLo, cHi) go straight into their in-lists
+ * (fill[v] advances), then each of those lists is sorted by source. Equal sources are interchangeable without
+ * weights, so the result equals the two-pass build's.
+ */
+export interface PassD {
+  segments: PassSegment[];
+  cLo: number;
+  cHi: number;
+  dropSelf: boolean;
+  both: boolean;
+  /** c → final id */
+  perm: Uint32Array;
+  inOffsets: Uint32Array;
+  fill: Uint32Array;
+  sources: Uint32Array;
+}
+
+const INSERTION_SORT_MAX = 48;
+
+export function scatterByTarget(t: PassD): void {
+  const { cLo, cHi, dropSelf, both, fill, sources } = t;
+  for (const seg of t.segments) {
+    const { src, dst, map, fmap } = seg;
+    const direct = seg.xLo !== null && seg.xHi !== null;
+    const xLo = seg.xLo ?? 0;
+    const xHi = seg.xHi ?? 0;
+    for (let i = 0; i < src.length; i++) {
+      const x = src[i];
+      const y = dst[i];
+      let ownY: boolean;
+      let ownX: boolean;
+      if (direct) {
+        ownY = y >= xLo && y < xHi;
+        ownX = both && x >= xLo && x < xHi;
+      } else {
+        const cy = map[y];
+        ownY = cy >= cLo && cy < cHi;
+        const cx = both ? map[x] : -1;
+        ownX = cx >= cLo && cx < cHi;
+      }
+      if (!ownX && !ownY) continue;
+      if (x === y) {
+        if (dropSelf) continue;
+        ownX = false;
+      }
+      if (ownY) sources[fill[fmap[y]]++] = fmap[x];
+      if (ownX) sources[fill[fmap[x]]++] = fmap[y];
+    }
+  }
+  const { perm, inOffsets } = t;
+  for (let c = cLo; c < cHi; c++) {
+    const v = perm[c];
+    const a = inOffsets[v];
+    const b = inOffsets[v + 1];
+    if (b - a > INSERTION_SORT_MAX) sources.subarray(a, b).sort();
+    else {
+      for (let i = a + 1; i < b; i++) {
+        const key = sources[i];
+        let j = i - 1;
+        while (j >= a && sources[j] > key) {
+          sources[j + 1] = sources[j];
+          j--;
+        }
+        sources[j + 1] = key;
+      }
+    }
+  }
+}
+
 /** Counting pass of the direct numbering: lines per stored value as source, as target, and as self-loop. */
 export interface PassCount {
   edges: Array<{ src: Uint32Array; dst: Uint32Array }>;

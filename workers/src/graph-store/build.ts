@@ -12,9 +12,11 @@ import {
   fillInLists,
   NO_SOURCE,
   scatterBySource,
+  scatterByTarget,
   type PassA,
   type PassB,
   type PassCount,
+  type PassD,
   type PassSegment,
 } from "./build-passes";
 import { sharedF64, sharedU32 } from "./shared";
@@ -36,7 +38,11 @@ export interface BuildReport {
   order: "out-degree" | "id";
 }
 
-export type PassTask = { kind: "count"; task: PassCount } | { kind: "a"; task: PassA } | { kind: "b"; task: PassB };
+export type PassTask =
+  | { kind: "count"; task: PassCount }
+  | { kind: "a"; task: PassA }
+  | { kind: "b"; task: PassB }
+  | { kind: "d"; task: PassD };
 
 /** Runs one pass's slices (on worker threads, or here); resolves with each slice's result (merged arcs for pass B). */
 export interface PassRunner {
@@ -56,6 +62,10 @@ export function runPass(t: PassTask): number {
   }
   if (t.kind === "a") {
     scatterBySource(t.task);
+    return 0;
+  }
+  if (t.kind === "d") {
+    scatterByTarget(t.task);
     return 0;
   }
   return fillInLists(t.task);
@@ -91,11 +101,6 @@ export async function buildGraph(
     inOffsets[u + 1] += inOffsets[u];
   }
 
-  // Pass A, sliced by canonical source ranges of about equal arc counts.
-  const bySrcDst = sharedU32(arcs);
-  const bySrcW = weighted ? sharedF64(arcs) : null;
-  const cursor = sharedU32(n);
-  cursor.set(outStart.subarray(0, n));
   const fmaps = new Map<Uint32Array, Uint32Array>();
   const segments: PassSegment[] = input.segments.map((seg) => {
     let fmap = fmaps.get(seg.map);
@@ -105,15 +110,62 @@ export async function buildGraph(
     }
     return { src: seg.src, dst: seg.dst, weight: seg.weight, map: seg.map, fmap, xLo: null, xHi: null };
   });
+  const sliceSegments = (cLo: number, cHi: number) => {
+    const bounds = input.monotone ? xBounds(input.ids, cLo, cHi) : null;
+    return bounds ? segments.map((s) => ({ ...s, xLo: bounds[0], xHi: bounds[1] })) : segments;
+  };
+  const ids = () => permuteIds(input.ids, perm);
+  const reportOf = (merged: number): BuildReport => ({
+    arcs,
+    selfLoopsDropped: counts.selfLoopsDropped,
+    duplicatesMerged: merged,
+    order: policy.renumber ? "out-degree" : "id",
+  });
+
+  if (!weighted) {
+    // Unweighted: arcs straight into their in-lists, lists sorted, duplicates folded in one sweep; W_u = arc count.
+    const sources = sharedU32(arcs);
+    const fill = sharedU32(n);
+    fill.set(inOffsets.subarray(0, n));
+    const permShared = sharedU32(n);
+    permShared.set(perm);
+    const inByC = new Float64Array(n + 1);
+    for (let c = 0; c < n; c++) inByC[c + 1] = inByC[c] + counts.in[c];
+    const cuts = balancedCuts((c) => inByC[c], n, slices);
+    await runner.run(
+      cuts.slice(0, -1).map((cLo, k) => ({
+        kind: "d" as const,
+        task: { segments: sliceSegments(cLo, cuts[k + 1]), cLo, cHi: cuts[k + 1], dropSelf, both, perm: permShared, inOffsets, fill, sources },
+      })),
+    );
+    const outWeight = sharedF64(n);
+    for (let c = 0; c < n; c++) outWeight[perm[c]] = counts.out[c];
+    const r = merge ? mergeUnitArcs(n, inOffsets, sources) : { m: arcs, weights: null };
+    const graph: Graph = {
+      n,
+      m: r.m,
+      inOffsets,
+      sources: r.m === arcs ? sources : sources.subarray(0, r.m),
+      weights: r.weights,
+      outWeight,
+      ids: ids(),
+    };
+    return { graph, report: reportOf(arcs - r.m) };
+  }
+
+  // Weighted: pass A, sliced by canonical source ranges of about equal arc counts, then pass B.
+  const bySrcDst = sharedU32(arcs);
+  const bySrcW = sharedF64(arcs);
+  const cursor = sharedU32(n);
+  cursor.set(outStart.subarray(0, n));
   const cCuts = balancedCuts((c) => outByC[c], n, slices);
   await runner.run(
     cCuts.slice(0, -1).map((cLo, k) => {
       const cHi = cCuts[k + 1];
-      const bounds = input.monotone ? xBounds(input.ids, cLo, cHi) : null;
       return {
         kind: "a" as const,
         task: {
-          segments: bounds ? segments.map((s) => ({ ...s, xLo: bounds[0], xHi: bounds[1] })) : segments,
+          segments: sliceSegments(cLo, cHi),
           cLo,
           cHi,
           dropSelf,
@@ -126,11 +178,10 @@ export async function buildGraph(
     }),
   );
 
-  // Pass B, sliced by target ranges of about equal in-arc counts (and source ranges for the out-weights). Weighted
-  // duplicates merge as they are placed; unweighted ones afterwards, in one sequential sweep that also produces the
-  // multiplicities (so no weight is written at random for an unweighted graph).
+  // Pass B, sliced by target ranges of about equal in-arc counts (and source ranges for the out-weights); duplicates
+  // merge as they are placed.
   const sources = sharedU32(arcs);
-  let weights = weighted ? sharedF64(arcs) : null;
+  const weights = sharedF64(arcs);
   const outWeight = sharedF64(n);
   const fillLast = sharedU32(2 * n);
   for (let v = 0; v < n; v++) {
@@ -148,7 +199,7 @@ export async function buildGraph(
         vHi: vCuts[k + 1],
         uLo: uCuts[k],
         uHi: uCuts[k + 1],
-        merge: merge && weighted,
+        merge,
         outStart,
         bySrcDst,
         bySrcW,
@@ -159,29 +210,18 @@ export async function buildGraph(
       },
     })),
   );
-  let merged = mergedBySlice.reduce((a, b) => a + b, 0);
-
-  let m = arcs;
-  if (merged > 0) m = compact(n, inOffsets, fillLast, sources, weights);
-  else if (merge && !weighted) {
-    const r = mergeUnitArcs(n, inOffsets, sources);
-    m = r.m;
-    merged = arcs - r.m;
-    weights = r.weights;
-  }
+  const merged = mergedBySlice.reduce((a, b) => a + b, 0);
+  const m = merged > 0 ? compact(n, inOffsets, fillLast, sources, weights) : arcs;
   const graph: Graph = {
     n,
     m,
     inOffsets,
     sources: m === arcs ? sources : sources.subarray(0, m),
-    weights: weights && m !== arcs ? weights.subarray(0, m) : weights,
+    weights: m === arcs ? weights : weights.subarray(0, m),
     outWeight,
-    ids: permuteIds(input.ids, perm),
+    ids: ids(),
   };
-  return {
-    graph,
-    report: { arcs, selfLoopsDropped: counts.selfLoopsDropped, duplicatesMerged: merged, order: policy.renumber ? "out-degree" : "id" },
-  };
+  return { graph, report: reportOf(merged) };
 }
 
 /** Stored-value bounds of canonical range [cLo, cHi) when values are the integer ids themselves. */
@@ -220,7 +260,7 @@ function countArcs(input: CanonicalEdges, dropSelf: boolean, both: boolean): Arc
 }
 
 /** Close the gaps merged duplicates left at the end of in-lists; rewrites inOffsets, returns the edge count. */
-function compact(n: number, inOffsets: Uint32Array, fillLast: Uint32Array, sources: Uint32Array, weights: Float64Array | null): number {
+function compact(n: number, inOffsets: Uint32Array, fillLast: Uint32Array, sources: Uint32Array, weights: Float64Array): number {
   let wr = 0;
   for (let v = 0; v < n; v++) {
     const start = inOffsets[v];
@@ -228,7 +268,7 @@ function compact(n: number, inOffsets: Uint32Array, fillLast: Uint32Array, sourc
     inOffsets[v] = wr;
     if (start !== wr) {
       sources.copyWithin(wr, start, end);
-      if (weights) weights.copyWithin(wr, start, end);
+      weights.copyWithin(wr, start, end);
     }
     wr += end - start;
   }
