@@ -1,4 +1,4 @@
-import { desc, lt } from "drizzle-orm";
+import { and, desc, eq, lt } from "drizzle-orm";
 import { emails } from "../../db/schema";
 import type { Executor } from "../../lib/db";
 
@@ -28,7 +28,8 @@ export async function insertEmail(db: Executor, mail: EmailRecord): Promise<void
   });
 }
 
-export async function listEmails(db: Executor, beforeId: number | null, limit: number) {
+/** One team's captured mail: other teams' invite and reset links must never show up in it. */
+export async function listEmails(db: Executor, teamId: number, beforeId: number | null, limit: number) {
   return db
     .select({
       id: emails.id,
@@ -41,7 +42,7 @@ export async function listEmails(db: Executor, beforeId: number | null, limit: n
       createdAt: emails.createdAt,
     })
     .from(emails)
-    .where(beforeId === null ? undefined : lt(emails.id, beforeId))
+    .where(and(eq(emails.teamId, teamId), beforeId === null ? undefined : lt(emails.id, beforeId)))
     .orderBy(desc(emails.id))
     .limit(limit);
 }

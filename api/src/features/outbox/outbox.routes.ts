@@ -8,9 +8,9 @@ export const outboxRoutes = [
     path: "/api/outbox",
     access: "admin",
     tag: "outbox",
-    summary: "Mail captured by the development mail fake, newest first (404 when the fake is off)",
+    summary: "The team's mail captured by the development mail fake, newest first (404 when the fake is off)",
     query: OutboxQuerySchema,
     response: OutboxPageSchema,
-    handler: ({ deps, query }) => getOutboxPage(deps, query),
+    handler: ({ deps, principal, query }) => getOutboxPage(deps, principal, query),
   }),
 ];

@@ -1,6 +1,7 @@
 import type { PageQuery } from "../../../contracts/common";
 import type { OutboxPage } from "../../../contracts/outbox";
 import type { AppDeps } from "../../deps";
+import type { Principal } from "../../http/principal";
 import { decodeCursor, encodeCursor } from "../../lib/cursor";
 import type { Executor } from "../../lib/db";
 import { AppError, ERRORS } from "../../lib/errors";
@@ -16,9 +17,9 @@ export function storeDelivery(db: Executor, delivery: DeliveryRecord): Promise<v
   return insertEmail(db, { ...delivery, state: delivery.error ? "failed" : "sent" });
 }
 
-export async function getOutboxPage(deps: AppDeps, query: PageQuery): Promise<OutboxPage> {
+export async function getOutboxPage(deps: AppDeps, principal: Principal, query: PageQuery): Promise<OutboxPage> {
   if (!deps.outboxEnabled) throw new AppError(ERRORS.routeNotFound);
-  const rows = await listEmails(deps.db, decodeCursor(query.cursor), query.limit + 1);
+  const rows = await listEmails(deps.db, principal.teamId, decodeCursor(query.cursor), query.limit + 1);
   const page = rows.slice(0, query.limit);
   const last = page.at(-1);
   return {
