@@ -51,6 +51,13 @@ export function formatSci(value: number | null | undefined, digits = 2): string 
   return value.toExponential(digits).replace("e+", "e");
 }
 
+/** A parameter like a tolerance, without padding zeros: "1e-9", "2.5e-7". */
+export function formatSciCompact(value: number | null | undefined): string {
+  if (value === null || value === undefined || !Number.isFinite(value)) return "—";
+  if (value === 0) return "0";
+  return value.toExponential().replace("e+", "e");
+}
+
 /** Scores keep six significant figures in one fixed shape so a column of them lines up: "2.71828e-3". */
 export function formatScore(value: number | null | undefined): string {
   return formatSci(value, 5);

@@ -27,3 +27,14 @@ export function decadeLabel(value: number): string {
   if (e >= 0 && e <= 3) return String(10 ** e);
   return `1e${e}`;
 }
+
+/** About `count` round ticks (steps of 1, 2 or 5 × 10^n) from 0 up to at least `max`. */
+export function niceTicks(max: number, count = 6): number[] {
+  if (!(max > 0)) return [0, 1];
+  const raw = max / count;
+  const magnitude = 10 ** Math.floor(Math.log10(raw));
+  const step = ([1, 2, 5, 10].find((m) => m * magnitude >= raw) ?? 10) * magnitude;
+  const ticks: number[] = [];
+  for (let t = 0; t < max + step; t += step) ticks.push(t);
+  return ticks;
+}

@@ -27,7 +27,7 @@ export function Component() {
       items: [
         { label: "Overview", href: paths.app.overview.getHref(), end: true },
         { label: "Graphs", href: paths.app.graphs.getHref() },
-        { label: "New run", href: paths.app.newRun.getHref() },
+        ...(can(session.role, "runs:submit") ? [{ label: "New run", href: paths.app.newRun.getHref() }] : []),
         { label: "Runs", href: paths.app.runs.getHref(), end: true },
         { label: "Compare", href: paths.app.compare.getHref() },
       ],

@@ -1,4 +1,5 @@
 import type { QueryClient } from "@tanstack/react-query";
+import { useEffect, useRef } from "react";
 import { Link, useLocation, useParams, type LoaderFunctionArgs } from "react-router-dom";
 import { Region } from "../../../components/errors/region";
 import { buttonClasses } from "../../../components/ui/button";
@@ -36,6 +37,20 @@ function Convergence({ run }: { run: RunDetail }) {
   const iterations = useIterations(run.id, live);
   const shards = useShards(run.id, live);
   const events = useRunEvents(run.id, live);
+  const wasLive = useRef(live);
+  const { refetch: refetchIterations } = iterations;
+  const { refetch: refetchShards } = shards;
+  const { refetch: refetchEvents } = events;
+
+  // The last poll may land just before the run's final iteration, shard states and events are written.
+  useEffect(() => {
+    if (wasLive.current && !live) {
+      void refetchIterations();
+      void refetchShards();
+      void refetchEvents();
+    }
+    wasLive.current = live;
+  }, [live, refetchIterations, refetchShards, refetchEvents]);
   const history = iterations.data?.items ?? [];
   return (
     <>
@@ -47,7 +62,6 @@ function Convergence({ run }: { run: RunDetail }) {
           iterations={history}
           tolerance={iterations.data?.tolerance ?? run.parameters.tolerance}
           boundFactor={iterations.data?.boundFactor ?? run.parameters.damping / (1 - run.parameters.damping)}
-          maxIterations={run.parameters.maxIterations}
         />
       </Card>
       <div className="grid gap-5 xl:grid-cols-2">

@@ -80,6 +80,7 @@ export function CreateGraphForm({ uploads, selectedUploadId, onCreated }: Create
           onChange={(event) => setUploadId(event.target.value)}
           options={uploadOptions}
           error={errors.uploadId ? "Choose a finished upload." : null}
+          fieldClassName="md:col-span-2"
         />
         <TextField
           label="Graph name"

@@ -4,13 +4,18 @@ import { CHART, decadeLabel, decadeTicks } from "../../../components/charts/char
 import { formatCount } from "../../../lib/format";
 import type { DegreeBin } from "../api/get-graph";
 
-type Point = { degree: number; nodes: number; min: number; max: number };
+type Point = { degree: number; nodes: number | null; min: number; max: number };
 
-/** Log bins drawn at their geometric centre; degree 0 has no place on a log axis and is reported in words instead. */
+/**
+ * Log bins drawn at their geometric centre. Empty bins stay in as gaps (null) so no line is drawn across them;
+ * degree 0 has no place on a log axis and is reported in words instead.
+ */
 function toPoints(bins: DegreeBin[]): Point[] {
-  return bins
-    .filter((bin) => bin.min >= 1 && bin.count > 0)
-    .map((bin) => ({ degree: Math.sqrt(bin.min * Math.max(bin.min, bin.max)), nodes: bin.count, min: bin.min, max: bin.max }));
+  const drawn = bins.filter((bin) => bin.min >= 1);
+  const last = drawn.findLastIndex((bin) => bin.count > 0);
+  return drawn
+    .slice(0, last + 1)
+    .map((bin) => ({ degree: Math.sqrt(bin.min * Math.max(bin.min, bin.max)), nodes: bin.count > 0 ? bin.count : null, min: bin.min, max: bin.max }));
 }
 
 function zeroCount(bins: DegreeBin[]): number {
@@ -20,13 +25,13 @@ function zeroCount(bins: DegreeBin[]): number {
 export function DegreePlot({ inDegree, outDegree }: { inDegree: DegreeBin[]; outDegree: DegreeBin[] }) {
   const inPoints = toPoints(inDegree);
   const outPoints = toPoints(outDegree);
-  const all = [...inPoints, ...outPoints];
+  const all = [...inPoints, ...outPoints].filter((p): p is Point & { nodes: number } => p.nodes !== null);
   if (all.length === 0) return <p className="text-[0.8125rem] text-ink-muted">No node has an edge, so there is no degree distribution to draw.</p>;
   const xTicks = decadeTicks(Math.min(...all.map((p) => p.min)), Math.max(...all.map((p) => p.max)));
   const yTicks = decadeTicks(1, Math.max(...all.map((p) => p.nodes)));
   const summary =
-    `Log-log degree distribution. In-degree: ${inPoints.length} bins, highest bin up to degree ${formatCount(inPoints.at(-1)?.max)}; ` +
-    `out-degree: ${outPoints.length} bins, highest bin up to degree ${formatCount(outPoints.at(-1)?.max)}. ` +
+    `Log-log degree distribution. In-degree: ${inPoints.filter((p) => p.nodes).length} bins, highest bin up to degree ${formatCount(inPoints.at(-1)?.max)}; ` +
+    `out-degree: ${outPoints.filter((p) => p.nodes).length} bins, highest bin up to degree ${formatCount(outPoints.at(-1)?.max)}. ` +
     `${formatCount(zeroCount(inDegree))} nodes have no in-edges and ${formatCount(zeroCount(outDegree))} have no out-edges.`;
 
   return (
@@ -46,7 +51,7 @@ export function DegreePlot({ inDegree, outDegree }: { inDegree: DegreeBin[]; out
           dataKey="degree"
           type="number"
           scale="log"
-          domain={[xTicks[0] ?? 1, xTicks.at(-1) ?? 10]}
+          domain={[(xTicks[0] ?? 1) / 1.6, (xTicks.at(-1) ?? 10) * 1.6]}
           ticks={xTicks}
           tickFormatter={decadeLabel}
           tick={CHART.font}
@@ -58,7 +63,7 @@ export function DegreePlot({ inDegree, outDegree }: { inDegree: DegreeBin[]; out
           dataKey="nodes"
           type="number"
           scale="log"
-          domain={[yTicks[0] ?? 1, yTicks.at(-1) ?? 10]}
+          domain={[(yTicks[0] ?? 1) / 1.6, (yTicks.at(-1) ?? 10) * 1.6]}
           ticks={yTicks}
           tickFormatter={decadeLabel}
           tick={CHART.font}
@@ -73,8 +78,8 @@ export function DegreePlot({ inDegree, outDegree }: { inDegree: DegreeBin[]; out
           }}
           contentStyle={{ fontSize: 12, borderColor: "var(--color-rule-strong)", background: "var(--color-paper-raised)" }}
         />
-        <Line data={inPoints} dataKey="nodes" name="in-degree" stroke={CHART.ink} strokeWidth={2} dot={{ r: 2.5 }} isAnimationActive={false} />
-        <Line data={outPoints} dataKey="nodes" name="out-degree" stroke={CHART.amber} strokeWidth={2} strokeDasharray="5 3" dot={{ r: 2.5 }} isAnimationActive={false} />
+        <Line data={inPoints} dataKey="nodes" name="in-degree" stroke={CHART.ink} strokeWidth={2} dot={{ r: 2.5 }} connectNulls={false} isAnimationActive={false} />
+        <Line data={outPoints} dataKey="nodes" name="out-degree" stroke={CHART.amber} strokeWidth={2} strokeDasharray="5 3" dot={{ r: 2.5 }} connectNulls={false} isAnimationActive={false} />
       </LineChart>
     </ChartFrame>
   );

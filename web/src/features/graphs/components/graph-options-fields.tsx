@@ -74,9 +74,10 @@ export function GraphOptionsFields({ defaults, errors }: { defaults: GraphOption
         label="Self-loops"
         name="selfLoops"
         defaultValue={defaults.selfLoops}
+        hint="An edge from a node to itself."
         options={[
-          { value: "drop", label: "Drop them (counted in the report)" },
-          { value: "keep", label: "Keep them" },
+          { value: "drop", label: "Drop (counted)" },
+          { value: "keep", label: "Keep" },
         ]}
       />
       <SelectField
@@ -84,7 +85,7 @@ export function GraphOptionsFields({ defaults, errors }: { defaults: GraphOption
         name="duplicates"
         defaultValue={defaults.duplicates}
         options={[
-          { value: "merge", label: "Merge them, summing weights" },
+          { value: "merge", label: "Merge, sum weights" },
           { value: "keep", label: "Keep every copy" },
         ]}
       />

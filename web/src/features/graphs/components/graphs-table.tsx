@@ -119,6 +119,7 @@ export function GraphsTable() {
           </TBody>
         </Table>
       )}
+      {items.length > 0 || pager.hasPrevious ? (
       <Pager
         label="Graph pages"
         page={pager.page}
@@ -135,6 +136,7 @@ export function GraphsTable() {
           ) : null
         }
       />
+      ) : null}
     </div>
   );
 }

@@ -35,7 +35,7 @@ export function RejectionPanel({ graph, canRetry }: { graph: GraphDetail; canRet
         {rejection ? (
           <p className="num mt-1.5 text-xs text-ink-soft">
             {rejection.file}
-            {rejection.line ? `, line ${formatCount(rejection.line)}` : ""} · {rejection.reason} · {rejection.code}
+            {rejection.line ? `, line ${formatCount(rejection.line)}` : ""} · {rejection.code}
           </p>
         ) : null}
         <p className="mt-1.5 text-xs text-ink-soft">The uploaded file is kept, so it can be read again with other options.</p>

@@ -3,7 +3,7 @@ import { EmptyState } from "../../../components/ui/empty-state";
 import { ProgressBar } from "../../../components/ui/progress-bar";
 import { TBody, TD, TH, THead, TR, Table } from "../../../components/ui/table";
 import { paths } from "../../../config/paths";
-import { elapsedMs, formatBytes, formatCount, formatDuration, formatSci } from "../../../lib/format";
+import { elapsedMs, formatBytes, formatCount, formatDuration, formatSci, formatSciCompact } from "../../../lib/format";
 import type { Overview } from "../api/get-overview";
 
 const link = "font-medium text-ink underline decoration-rule-strong underline-offset-2 hover:decoration-ink";
@@ -22,7 +22,7 @@ export function RunningRuns({ running }: { running: Overview["running"] }) {
               <span className="text-ink-soft">on {run.graph.name}</span>
             </span>
             <span className="num text-xs text-ink-muted">
-              k {formatCount(run.iteration)}/{formatCount(run.maxIterations)} · r {formatSci(run.residual)} → {formatSci(run.tolerance, 0)}
+              k {formatCount(run.iteration)}/{formatCount(run.maxIterations)} · r {formatSci(run.residual)} → {formatSciCompact(run.tolerance)}
               {run.etaSeconds !== null ? ` · ETA ${formatDuration(run.etaSeconds * 1000)}` : ""}
             </span>
           </div>

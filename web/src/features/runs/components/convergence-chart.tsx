@@ -1,20 +1,22 @@
 import { CartesianGrid, Line, LineChart, ReferenceLine, Tooltip, XAxis, YAxis } from "recharts";
 import { ChartFrame, LegendKey } from "../../../components/charts/chart-frame";
-import { CHART, decadeLabel, decadeTicks } from "../../../components/charts/chart-theme";
+import { CHART, decadeLabel, decadeTicks, niceTicks } from "../../../components/charts/chart-theme";
 import { formatSci } from "../../../lib/format";
 import type { Iteration } from "../api/get-iterations";
 
-type Props = { iterations: Iteration[]; tolerance: number; boundFactor: number; maxIterations: number };
+type Props = { iterations: Iteration[]; tolerance: number; boundFactor: number };
 
 /** Residual per iteration on a log axis, the tolerance it must get under, and the certified bound that follows from it. */
-export function ConvergenceChart({ iterations, tolerance, boundFactor, maxIterations }: Props) {
+export function ConvergenceChart({ iterations, tolerance, boundFactor }: Props) {
   const points = iterations.filter((it) => it.residual > 0).map((it) => ({ k: it.k, residual: it.residual, bound: it.residual * boundFactor }));
   if (points.length === 0) {
     return <p className="py-10 text-center text-[0.8125rem] text-ink-muted">The chart starts with the first iteration.</p>;
   }
-  const values = points.flatMap((p) => [p.residual, p.bound]).concat(tolerance);
+  // One decade of room under the tolerance so its line never sits on the axis.
+  const values = points.flatMap((p) => [p.residual, p.bound]).concat(tolerance / 10);
   const yTicks = decadeTicks(Math.min(...values), Math.max(...values));
   const lastK = points.at(-1)?.k ?? 1;
+  const xTicks = niceTicks(Math.max(lastK, 5));
   const last = points.at(-1);
   const summary =
     `Residual by iteration on a log scale: ${points.length} iterations, from ${formatSci(points[0]?.residual)} at k=${points[0]?.k} ` +
@@ -37,7 +39,8 @@ export function ConvergenceChart({ iterations, tolerance, boundFactor, maxIterat
         <XAxis
           dataKey="k"
           type="number"
-          domain={[1, Math.max(lastK, Math.min(maxIterations, Math.ceil(lastK * 1.1) + 1))]}
+          domain={[0, xTicks.at(-1) ?? lastK]}
+          ticks={xTicks}
           allowDecimals={false}
           tick={CHART.font}
           stroke={CHART.muted}

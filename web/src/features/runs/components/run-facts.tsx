@@ -1,5 +1,5 @@
 import { FactList } from "../../../components/ui/figures";
-import { elapsedMs, formatCount, formatDateTime, formatDuration, formatSci } from "../../../lib/format";
+import { elapsedMs, formatCount, formatDateTime, formatDuration, formatSciCompact } from "../../../lib/format";
 import type { RunDetail } from "../api/get-run";
 
 const num = (text: string) => <span className="num">{text}</span>;
@@ -12,7 +12,7 @@ export function RunParameters({ run }: { run: RunDetail }) {
       <FactList
         items={[
           { label: "Damping α", value: <>{num(String(p.damping))} <span className="text-ink-muted">(teleport {num(String(+(1 - p.damping).toFixed(6)))})</span></> },
-          { label: "Tolerance", value: num(formatSci(p.tolerance)) },
+          { label: "Tolerance", value: num(formatSciCompact(p.tolerance)) },
           { label: "Iteration cap", value: num(formatCount(p.maxIterations)) },
           { label: "Dangling mass to", value: p.dangling === "teleport" ? "the teleport vector" : "every node equally" },
           { label: "Teleport", value: seeds ? `${formatCount(seeds.length)} trusted seed ${seeds.length === 1 ? "node" : "nodes"}` : "uniform over all nodes" },

@@ -2,7 +2,7 @@ import type { ReactNode } from "react";
 import { StatusPill } from "../../../components/ui/badge";
 import { Figures } from "../../../components/ui/figures";
 import { ProgressBar } from "../../../components/ui/progress-bar";
-import { formatCount, formatDecimal, formatDuration, formatRate, formatSci } from "../../../lib/format";
+import { formatCount, formatDecimal, formatDuration, formatRate, formatSci, formatSciCompact } from "../../../lib/format";
 import { RUN_STATUS } from "../../../lib/status";
 import type { Iteration } from "../api/get-iterations";
 import type { RunDetail } from "../api/get-run";
@@ -31,7 +31,7 @@ function Verdict({ run }: { run: RunDetail }) {
         "ok",
         <>
           <strong className="font-semibold">Converged</strong> after <span className="num">{formatCount(run.iterations)}</span> iterations: residual{" "}
-          <span className="num">{formatSci(run.residual)}</span> &lt; tolerance <span className="num">{formatSci(p.tolerance)}</span>. Every score is within{" "}
+          <span className="num">{formatSci(run.residual)}</span> &lt; tolerance <span className="num">{formatSciCompact(p.tolerance)}</span>. Every score is within{" "}
           <span className="num">{formatSci(run.errorBound)}</span> (L1, all nodes together) of the exact stationary vector.
         </>,
       );
@@ -40,7 +40,7 @@ function Verdict({ run }: { run: RunDetail }) {
         "accent",
         <>
           <strong className="font-semibold">Not converged.</strong> The run stopped at the iteration cap of <span className="num">{formatCount(p.maxIterations)}</span>{" "}
-          with residual <span className="num">{formatSci(run.residual)}</span>, still above the tolerance <span className="num">{formatSci(p.tolerance)}</span>. The
+          with residual <span className="num">{formatSci(run.residual)}</span>, still above the tolerance <span className="num">{formatSciCompact(p.tolerance)}</span>. The
           scores are usable with the certified bound <span className="num">{formatSci(run.errorBound)}</span>; raise the cap or loosen the tolerance for a
           converged run.
         </>,
@@ -88,7 +88,7 @@ export function RunStatus({ run, iterations }: { run: RunDetail; iterations: Ite
       <Figures
         columns={6}
         items={[
-          { label: "Residual ‖xₖ₊₁ − xₖ‖₁", value: formatSci(run.residual), emphasis: true, hint: <>tolerance {formatSci(p.tolerance)}</> },
+          { label: "Residual ‖xₖ₊₁ − xₖ‖₁", value: formatSci(run.residual), emphasis: true, hint: <>tolerance {formatSciCompact(p.tolerance)}</> },
           { label: "Certified error bound", value: formatSci(run.errorBound), emphasis: true, hint: <>α/(1−α) · residual</> },
           { label: "Contraction rate", value: formatDecimal(progress.contractionRate, 3), hint: <>observed; at most α = {p.damping}</> },
           { label: "Time per iteration", value: formatDuration(progress.perIterationMs) },

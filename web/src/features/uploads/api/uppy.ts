@@ -8,11 +8,13 @@ export const UPLOAD_ENDPOINT = "/api/uploads";
  * One Uppy instance per upload panel. The instance id and the endpoint are fixed so a file added again after a reload
  * gets the same fingerprint, and tus finds its stored upload URL and resumes at the server's offset.
  */
-export function createUploader(maxFileSize: number | null): Uppy {
+export const MAX_FILES = 5;
+
+export function createUploader(): Uppy {
   return new Uppy({
     id: "stillpoint-edge-list",
     autoProceed: false,
-    restrictions: { maxFileSize, maxNumberOfFiles: 5 },
+    restrictions: { maxNumberOfFiles: MAX_FILES },
   }).use(Tus, {
     endpoint: UPLOAD_ENDPOINT,
     withCredentials: true,

@@ -6,7 +6,7 @@ import { useEffect, useState } from "react";
 import { Loading } from "../../../components/ui/loading";
 import { formatBytes } from "../../../lib/format";
 import type { UploadLimits } from "../api/get-uploads";
-import { createUploader, tusIdOf } from "../api/uppy";
+import { createUploader, MAX_FILES, tusIdOf } from "../api/uppy";
 
 type UploadPanelProps = {
   limits: UploadLimits | null;
@@ -23,10 +23,15 @@ export function UploadPanel({ limits, onUploaded }: UploadPanelProps) {
   const [uppy, setUppy] = useState<Uppy | null>(null);
 
   useEffect(() => {
-    const instance = createUploader(maxBytes);
+    const instance = createUploader();
     setUppy(instance);
     return () => instance.destroy();
-  }, [maxBytes]);
+  }, []);
+
+  // Limits arrive after the dashboard is up; changing them must not replace the instance and drop its files.
+  useEffect(() => {
+    uppy?.setOptions({ restrictions: { maxFileSize: maxBytes, maxNumberOfFiles: MAX_FILES } });
+  }, [uppy, maxBytes]);
 
   useEffect(() => {
     if (!uppy) return;
