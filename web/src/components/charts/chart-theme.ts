@@ -11,13 +11,15 @@ export const CHART = {
   font: { fontSize: 11, fontFamily: "var(--font-mono)", fill: "var(--color-ink-muted)" },
 } as const;
 
-/** Powers of ten covering [min, max] (both > 0): the ticks of a log axis. */
-export function decadeTicks(min: number, max: number): number[] {
+/** Powers of ten covering [min, max] (both > 0): the ticks of a log axis, every few decades when the span is wide. */
+export function decadeTicks(min: number, max: number, most = 12): number[] {
   if (!(min > 0) || !(max > 0)) return [];
-  const lo = Math.floor(Math.log10(Math.min(min, max)));
   const hi = Math.ceil(Math.log10(Math.max(min, max)));
+  let lo = Math.min(Math.floor(Math.log10(Math.min(min, max))), hi - 1);
+  const step = Math.ceil((hi - lo) / (most - 1));
+  lo = hi - step * Math.ceil((hi - lo) / step);
   const ticks: number[] = [];
-  for (let e = lo; e <= Math.max(hi, lo + 1); e++) ticks.push(10 ** e);
+  for (let e = lo; e <= hi; e += step) ticks.push(10 ** e);
   return ticks;
 }
 
