@@ -1,6 +1,6 @@
 import type { QueryClient } from "@tanstack/react-query";
 import { useEffect, useRef } from "react";
-import { Link, useLocation, useParams, type LoaderFunctionArgs } from "react-router-dom";
+import { Link, useLocation, useNavigate, useParams, type LoaderFunctionArgs } from "react-router-dom";
 import { Region } from "../../../components/errors/region";
 import { buttonClasses } from "../../../components/ui/button";
 import { Card } from "../../../components/ui/card";
@@ -118,6 +118,7 @@ function Results({ run }: { run: RunDetail }) {
 function RunPage({ id, tab }: { id: number; tab: "convergence" | "results" }) {
   const { data: run } = useRun(id);
   const session = useSession();
+  const navigate = useNavigate();
   const seeded = run.parameters.teleport.kind === "seeds";
   return (
     <>
@@ -127,7 +128,12 @@ function RunPage({ id, tab }: { id: number; tab: "convergence" | "results" }) {
         description={<span className="num text-xs">{parametersSummary(run.parameters)}</span>}
         actions={
           <>
-            <RunActions run={run} canAct={can(session.role, "runs:cancel")} />
+            <RunActions
+              run={run}
+              canAct={can(session.role, "runs:cancel")}
+              canDelete={session.role === "admin" || run.createdBy?.userId === session.user.id}
+              onDeleted={() => navigate(paths.app.runs.getHref())}
+            />
             <Link to={paths.app.compare.getHref(run.id)} className={buttonClasses("secondary", "md")}>
               Compare…
             </Link>

@@ -29,3 +29,16 @@ export function useRetryRun() {
     },
   });
 }
+
+export function deleteRun({ id }: { id: number }) {
+  return api.delete(`/runs/${id}`, null);
+}
+
+export function useDeleteRun() {
+  const queryClient = useQueryClient();
+  return useMutation({
+    mutationFn: deleteRun,
+    // The deleted run's own queries are left alone: the page still shows them until it navigates away.
+    onSuccess: () => queryClient.invalidateQueries({ queryKey: ["runs", "list"] }),
+  });
+}

@@ -1,21 +1,31 @@
 import { useState } from "react";
-import { RETRYABLE_RUN_STATUSES } from "#contracts/runs";
+import { FINISHED_RUN_STATUSES, RETRYABLE_RUN_STATUSES } from "#contracts/runs";
 import { Button } from "../../../components/ui/button";
 import { ErrorBanner } from "../../../components/ui/error-banner";
 import { isLiveRun } from "../../../lib/status";
 import type { RunDetail } from "../api/get-run";
-import { useCancelRun, useRetryRun } from "../api/run-actions";
+import { useCancelRun, useDeleteRun, useRetryRun } from "../api/run-actions";
 
-/** Cancel while a run is queued or running; retry the failed shards of a run that needs attention or failed. */
-export function RunActions({ run, canAct }: { run: RunDetail; canAct: boolean }) {
+type RunActionsProps = {
+  run: RunDetail;
+  canAct: boolean;
+  /** Submitters delete their own finished runs; admins any. */
+  canDelete: boolean;
+  onDeleted: () => void;
+};
+
+/** Cancel while a run is queued or running; retry the failed shards of a run that needs attention or failed; delete a finished one. */
+export function RunActions({ run, canAct, canDelete, onDeleted }: RunActionsProps) {
   const cancel = useCancelRun();
   const retry = useRetryRun();
-  const [confirming, setConfirming] = useState(false);
+  const remove = useDeleteRun();
+  const [confirming, setConfirming] = useState<"cancel" | "delete" | null>(null);
   if (!canAct) return null;
 
   const canCancel = isLiveRun(run.status) && !run.cancelRequested;
   const canRetry = RETRYABLE_RUN_STATUSES.includes(run.status) && !run.retryRequested;
-  const error = cancel.error ?? retry.error;
+  const deletable = canDelete && FINISHED_RUN_STATUSES.includes(run.status) && !run.retryRequested;
+  const error = cancel.error ?? retry.error ?? remove.error;
 
   return (
     <div className="flex flex-col items-end gap-2">
@@ -28,18 +38,34 @@ export function RunActions({ run, canAct }: { run: RunDetail; canAct: boolean })
           </Button>
         ) : null}
         {canCancel ? (
-          confirming ? (
+          confirming === "cancel" ? (
             <>
-              <Button variant="danger" busy={cancel.isPending} onClick={() => cancel.mutate({ id: run.id }, { onSettled: () => setConfirming(false) })}>
+              <Button variant="danger" busy={cancel.isPending} onClick={() => cancel.mutate({ id: run.id }, { onSettled: () => setConfirming(null) })}>
                 Confirm cancel
               </Button>
-              <Button variant="quiet" onClick={() => setConfirming(false)}>
+              <Button variant="quiet" onClick={() => setConfirming(null)}>
                 Keep running
               </Button>
             </>
           ) : (
-            <Button variant="danger" onClick={() => setConfirming(true)}>
+            <Button variant="danger" onClick={() => setConfirming("cancel")}>
               Cancel run
+            </Button>
+          )
+        ) : null}
+        {deletable ? (
+          confirming === "delete" ? (
+            <>
+              <Button variant="danger" busy={remove.isPending} onClick={() => remove.mutate({ id: run.id }, { onSuccess: onDeleted, onSettled: () => setConfirming(null) })}>
+                Confirm delete
+              </Button>
+              <Button variant="quiet" onClick={() => setConfirming(null)}>
+                Keep it
+              </Button>
+            </>
+          ) : (
+            <Button variant="quiet" onClick={() => setConfirming("delete")}>
+              Delete run
             </Button>
           )
         ) : null}

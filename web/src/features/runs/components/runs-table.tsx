@@ -79,7 +79,6 @@ export function RunsTable({ filter, onFilterChange, graphs, caption = "Ranking r
               <TH>Parameters</TH>
               <TH numeric>Iterations</TH>
               <TH numeric>Residual</TH>
-              <TH>Submitted by</TH>
               <TH>Submitted</TH>
               <TH numeric>Took</TH>
             </TR>
@@ -101,16 +100,18 @@ export function RunsTable({ filter, onFilterChange, graphs, caption = "Ranking r
                   </Link>
                 </TD>
                 <TD className="num text-xs whitespace-nowrap text-ink-soft">{parametersSummary(run.parameters)}</TD>
-                <TD numeric>
+                <TD numeric className="whitespace-nowrap">
                   {formatCount(run.iterations)}
                   <span className="text-ink-muted"> / {formatCount(run.parameters.maxIterations)}</span>
                 </TD>
-                <TD numeric className={run.status === "not-converged" ? "text-amber-strong" : undefined}>
+                <TD numeric className={run.status === "not-converged" ? "whitespace-nowrap text-amber-strong" : "whitespace-nowrap"}>
                   {formatSci(run.residual)}
                 </TD>
-                <TD className="whitespace-nowrap text-ink-soft">{run.createdBy?.name ?? (run.isDemo ? "Demo" : "—")}</TD>
-                <TD className="num whitespace-nowrap text-ink-soft">
-                  <time dateTime={isoOrEmpty(run.createdAt)}>{formatDateTime(run.createdAt)}</time>
+                <TD className="whitespace-nowrap text-ink-soft">
+                  <span className="block text-[0.8125rem]">{run.createdBy?.name ?? (run.isDemo ? "Demo" : "—")}</span>
+                  <time className="num block text-xs text-ink-muted" dateTime={isoOrEmpty(run.createdAt)}>
+                    {formatDateTime(run.createdAt)}
+                  </time>
                 </TD>
                 <TD numeric className="whitespace-nowrap text-ink-soft">
                   {run.startedAt ? formatDuration(elapsedMs(run.startedAt, run.finishedAt)) : "—"}

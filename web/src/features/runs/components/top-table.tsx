@@ -8,7 +8,7 @@ import { TBody, TD, TH, THead, TR, Table } from "../../../components/ui/table";
 import { formatCount, formatScore, formatSci } from "../../../lib/format";
 import { useTop, type TopEntry } from "../api/get-top";
 
-const PAGE = 50;
+const PAGE = 25;
 type Column = "rank" | "score" | "nodeId";
 
 function compare(column: Column, a: TopEntry, b: TopEntry): number {
