@@ -216,8 +216,9 @@ function round(ms: number): number {
 
 export function humanReport(r: RankReport): string {
   const lines = [
-    `${r.file}: ${r.nodes} nodes, ${r.edges} edges (${r.ingest.rows} rows; ${r.ingest.selfLoopsDropped} self-loops dropped, ` +
-      `${r.ingest.duplicates} duplicates merged, ${r.ingest.danglingNodes} dangling, ${r.ingest.badLines} bad lines skipped)`,
+    `${r.file}: ${count(r.nodes, "node")}, ${count(r.edges, "edge")} (${count(r.ingest.rows, "row")}; ` +
+      `${count(r.ingest.selfLoopsDropped, "self-loop")} dropped, ${count(r.ingest.duplicates, "duplicate")} merged, ` +
+      `${r.ingest.danglingNodes} dangling, ${count(r.ingest.badLines, "bad line")} skipped)`,
     `${stopText(r)} after ${r.iterations} iterations: L1 residual ${r.residual.toExponential(3)}, ` +
       `error bound ${r.errorBound.toExponential(3)} (damping ${r.damping}, tolerance ${r.tolerance})`,
     `time: parse ${ms(r.timings.parse)}, build ${ms(r.timings.build)}, iterate ${ms(r.timings.iterate)} ` +
@@ -232,6 +233,10 @@ export function humanReport(r: RankReport): string {
   }
   if (r.out) lines.push("", `scores written to ${r.out}`);
   return lines.join("\n");
+}
+
+function count(n: number, word: string): string {
+  return `${n} ${word}${n === 1 ? "" : "s"}`;
 }
 
 function stopText(r: RankReport): string {
