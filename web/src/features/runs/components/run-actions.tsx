@@ -3,7 +3,7 @@ import { FINISHED_RUN_STATUSES, RETRYABLE_RUN_STATUSES } from "#contracts/runs";
 import { Button } from "../../../components/ui/button";
 import { ErrorBanner } from "../../../components/ui/error-banner";
 import { isLiveRun } from "../../../lib/status";
-import type { RunDetail } from "../api/get-run";
+import { retryPending, type RunDetail } from "../api/get-run";
 import { useCancelRun, useDeleteRun, useRetryRun } from "../api/run-actions";
 
 type RunActionsProps = {
@@ -23,15 +23,15 @@ export function RunActions({ run, canAct, canDelete, onDeleted }: RunActionsProp
   if (!canAct) return null;
 
   const canCancel = isLiveRun(run.status) && !run.cancelRequested;
-  const canRetry = RETRYABLE_RUN_STATUSES.includes(run.status) && !run.retryRequested;
-  const deletable = canDelete && FINISHED_RUN_STATUSES.includes(run.status) && !run.retryRequested;
+  const canRetry = RETRYABLE_RUN_STATUSES.includes(run.status) && !retryPending(run);
+  const deletable = canDelete && FINISHED_RUN_STATUSES.includes(run.status) && !retryPending(run);
   const error = cancel.error ?? retry.error ?? remove.error;
 
   return (
     <div className="flex flex-col items-end gap-2">
       <div className="flex items-center gap-2">
         {run.cancelRequested && isLiveRun(run.status) ? <span role="status" className="text-[0.8125rem] text-ink-muted">Canceling…</span> : null}
-        {run.retryRequested ? <span role="status" className="text-[0.8125rem] text-ink-muted">Retry requested…</span> : null}
+        {retryPending(run) ? <span role="status" className="text-[0.8125rem] text-ink-muted">Retry requested…</span> : null}
         {canRetry ? (
           <Button variant="primary" busy={retry.isPending} onClick={() => retry.mutate({ id: run.id })}>
             Retry failed shards
