@@ -62,7 +62,8 @@ export async function ingestEdgeFile(path: string, options: Partial<GraphOptions
     if (reader.size === 0 || !first) throw new IngestError("empty-file", path, `${path}: the file is empty`);
     const sample = new Uint8Array(first.buffer, 0, first.len);
     const format = sniffFormat(sample, opts, limits.sampleLines);
-    const lineBytes = first.len / Math.max(1, countNewlines(sample));
+    const probe = sample.subarray(0, Math.min(sample.length, 1 << 18));
+    const lineBytes = probe.length / Math.max(1, countNewlines(probe));
     const expectedLines = (textBytes / lineBytes) * 1.03;
     const cfg: ParserConfig = {
       format,
