@@ -44,7 +44,8 @@ export interface IngestResult {
   timings: { parseMs: number; parseBusyMs: number; numberMs: number; buildMs: number; totalMs: number };
 }
 
-const MAX_INFLIGHT = 2;
+// Chunks queued per worker: enough that a busy calling thread (reading, hashing) does not leave workers idle.
+const MAX_INFLIGHT = 4;
 
 export async function ingestEdgeFile(path: string, options: Partial<GraphOptions> = {}, run: IngestRun = {}): Promise<IngestResult> {
   const opts = resolveGraphOptions(options);
