@@ -1,10 +1,12 @@
 // Time per iteration of the pull step on an R-MAT graph: JS vs WASM kernel, 1 and 2 threads.
 // Usage: tsx bench/kernel.bench.ts [--scale 20] [--edges pairs.bin] [--threads 1,2] [--kernels js,wasm] [--reps 3]
-//        [--iterations 12] [--renumber none|out|in] [--ref PR_REF_BINARY --ref-edges EDGES_TSV]
+//        [--iterations 12] [--renumber none|out|in] [--cache DIR] [--ref PR_REF_BINARY --ref-edges EDGES_TSV]
+// --cache keeps the built (and renumbered) CSR in DIR so later runs skip the build.
 // --edges reads little-endian int32 (src, dst) pairs; --ref runs the C reference between our runs (same minute,
 // alternated, since the machines are noisy) and prints the ratio of medians.
 import { execFileSync } from "node:child_process";
-import { readFileSync } from "node:fs";
+import { existsSync, mkdirSync, readFileSync, writeFileSync } from "node:fs";
+import { join } from "node:path";
 import { parseArgs } from "node:util";
 import { fromDenseEdges, type Graph } from "../workers/src/core/graph";
 import { degreeOrder, relabel } from "../workers/src/core/relabel";
@@ -21,6 +23,7 @@ const { values: opt } = parseArgs({
     iterations: { type: "string", default: "12" },
     ref: { type: "string" },
     renumber: { type: "string", default: "none" },
+    cache: { type: "string" },
     "ref-edges": { type: "string" },
   },
 });
@@ -83,14 +86,36 @@ function runRef(): number | null {
   return ms ? Number(ms[1]) * 1000 : null;
 }
 
-const t0 = performance.now();
-const pairs = opt.edges ? new Uint32Array(readFileSync(opt.edges).buffer) : rmatPairs(Number(opt.scale));
-const plain = graphFromPairs(pairs);
-const t1 = performance.now();
-const g = opt.renumber === "none" ? plain : relabel(plain, degreeOrder(plain, opt.renumber === "in" ? "in" : "out"));
-console.log(
-  `graph n=${g.n} m=${g.m} built in ${((t1 - t0) / 1000).toFixed(1)} s, renumbered (${opt.renumber}) in ${((performance.now() - t1) / 1000).toFixed(1)} s`,
-);
+function loadCached(dir: string): Graph | null {
+  if (!existsSync(join(dir, "meta.json"))) return null;
+  const { n, m } = JSON.parse(readFileSync(join(dir, "meta.json"), "utf8")) as { n: number; m: number };
+  const u32 = (f: string) => new Uint32Array(readFileSync(join(dir, f)).buffer);
+  const outWeight = new Float64Array(readFileSync(join(dir, "out-weight.bin")).buffer);
+  const ids = BigUint64Array.from({ length: n }, (_, i) => BigInt(i));
+  return { n, m, inOffsets: u32("in-offsets.bin"), sources: u32("sources.bin"), weights: null, outWeight, ids: { kind: "integer", ids } };
+}
+
+function buildGraph(): Graph {
+  const t0 = performance.now();
+  const pairs = opt.edges ? new Uint32Array(readFileSync(opt.edges).buffer) : rmatPairs(Number(opt.scale));
+  const plain = graphFromPairs(pairs);
+  const t1 = performance.now();
+  const g = opt.renumber === "none" ? plain : relabel(plain, degreeOrder(plain, opt.renumber === "in" ? "in" : "out"));
+  const secs = (a: number, b: number) => ((b - a) / 1000).toFixed(1);
+  console.log(`graph built in ${secs(t0, t1)} s, renumbered (${opt.renumber}) in ${secs(t1, performance.now())} s`);
+  return g;
+}
+
+const cached = opt.cache ? loadCached(opt.cache) : null;
+const g = cached ?? buildGraph();
+if (opt.cache && !cached) {
+  mkdirSync(opt.cache, { recursive: true });
+  writeFileSync(join(opt.cache, "in-offsets.bin"), g.inOffsets);
+  writeFileSync(join(opt.cache, "sources.bin"), g.sources);
+  writeFileSync(join(opt.cache, "out-weight.bin"), g.outWeight);
+  writeFileSync(join(opt.cache, "meta.json"), JSON.stringify({ n: g.n, m: g.m, renumber: opt.renumber }));
+}
+console.log(`graph n=${g.n} m=${g.m}${cached ? " (from cache)" : ""}`);
 const iterations = Number(opt.iterations);
 const params: RankParams = {
   damping: 0.85,
@@ -109,7 +134,8 @@ for (const threads of opt.threads.split(",").map(Number)) {
     let best = Infinity;
     for (let rep = 0; rep < Number(opt.reps); rep++) {
       const ms: number[] = [];
-      await rank(g, { ...params, threads, shards: threads }, { pool, kernel, onIteration: (p) => void ms.push(p.elapsedMs) });
+      const r = await rank(g, { ...params, threads, shards: threads }, { pool, kernel, onIteration: (p) => void ms.push(p.elapsedMs) });
+      if (r.stopReason !== "iteration-cap") console.log(`  run stopped: ${r.stopReason} ${r.failure ? JSON.stringify(r.failure) : ""}`);
       perIter.push(median(ms));
       best = Math.min(best, ...ms);
       const ref = threads === 2 ? runRef() : null;
