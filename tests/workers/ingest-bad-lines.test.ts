@@ -16,6 +16,7 @@ const cases: Array<[BadLineReason, string | Uint8Array]> = [
   ["wrong-column-count", "4,5,1,9\n"],
   ["empty-id", ",5,1\n"],
   ["id-too-large", "18446744073709551616,5,1\n"],
+  ["id-too-large", "4,1234567890123456789012345,1\n"],
   ["field-too-long", `x${long},5,1\n`],
   ["invalid-utf8", new Uint8Array([0x61, 0xff, 0x62, 0x2c, 0x35, 0x2c, 0x31, 0x0a])],
   ["invalid-utf8", new Uint8Array([0xed, 0xa0, 0x80, 0x2c, 0x35, 0x2c, 0x31, 0x0a])],

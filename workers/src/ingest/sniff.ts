@@ -51,7 +51,8 @@ export function sniffFormat(sample: Uint8Array, options: GraphOptions, maxLines:
     return { n, f: fields.slice() };
   });
   const columns = modalColumns(rows.map((r) => r.n));
-  const isInt = (r: (typeof rows)[number], k: number) => r.n > k && fitsU64(sample, r.f[3 * k], r.f[3 * k + 1]);
+  // All digits means an integer id, of any length: one above 2^64 − 1 is then a bad line, as in the parser.
+  const isInt = (r: (typeof rows)[number], k: number) => r.n > k && isAllDigits(sample, r.f[3 * k], r.f[3 * k + 1]);
   const isNum = (r: (typeof rows)[number], k: number) => {
     if (r.n <= k) return false;
     const w = parseWeight(sample, r.f[3 * k], r.f[3 * k + 1]);
@@ -83,13 +84,6 @@ export function sniffFormat(sample: Uint8Array, options: GraphOptions, maxLines:
 }
 
 /** The more frequent of 2 and 3 fields; a tie goes to the first line's count. */
-/** All digits, and at most 20 of them after leading zeros (so an integer up to 2^64 − 1, or just above). */
-function fitsU64(buf: Uint8Array, s: number, e: number): boolean {
-  if (!isAllDigits(buf, s, e)) return false;
-  while (s < e - 1 && buf[s] === 48) s++;
-  return e - s <= 20;
-}
-
 function modalColumns(counts: number[]): 2 | 3 {
   let two = 0;
   let three = 0;
