@@ -7,15 +7,16 @@ import { expect, inject } from "vitest";
 import { loadConfig } from "../../api/src/config";
 import { findTeamByName } from "../../api/src/features/team/team.repo";
 import { startServer, type RunningServer } from "../../api/src/server";
-import { startRunner, type Runner } from "../../workers/src/runner/main";
+import { startRunner, type Runner, type RunnerConfig } from "../../workers/src/runner/main";
 import { runnerConfig } from "../api/runner-support";
 import { DEMO_PASSWORD, DEMO_TEAM, screenshot, seedDemo } from "./support";
 
 export interface FlowPortal {
   server: RunningServer;
-  runner: Runner;
   dataDir: string;
   teamId: number;
+  /** Stops the runner and starts a fresh one, e.g. with injected shard faults or without them again. */
+  replaceRunner(overrides?: Partial<RunnerConfig>): Promise<void>;
   close(): Promise<void>;
 }
 
@@ -42,12 +43,16 @@ export async function startFlowPortal(): Promise<FlowPortal> {
   await seedDemo(server.deps.db);
   const team = await findTeamByName(server.deps.db, DEMO_TEAM);
   if (!team) throw new Error("demo team missing after seeding");
-  const runner = await startRunner(runnerConfig(dataDir, team.id, { publicUrl: server.url }));
+  const teamId = team.id;
+  let runner: Runner = await startRunner(runnerConfig(dataDir, teamId, { publicUrl: server.url }));
   return {
     server,
-    runner,
     dataDir,
-    teamId: team.id,
+    teamId,
+    async replaceRunner(overrides = {}) {
+      await runner.stop();
+      runner = await startRunner(runnerConfig(dataDir, teamId, { publicUrl: server.url, ...overrides }));
+    },
     async close() {
       await runner.stop();
       await server.close();

@@ -294,6 +294,38 @@ describe("the portal's whole job in a real browser", () => {
     await shot(page, "32-run-not-converged");
   });
 
+  it("pauses a run whose shard keeps failing and resumes it when its failed shards are retried", async () => {
+    await portal.replaceRunner({ faults: [1, 2, 3].map((attempt) => ({ shard: 0, iteration: 20, attempt, kind: "throw" as const })) });
+    await page.goto(`${portal.server.url}/runs/new?graph=${graphId}`);
+    const form = page.getByRole("form", { name: "New ranking run" });
+    await form.getByLabel("Fixed count").check();
+    await form.getByLabel("Shard count").fill("2");
+    await form.getByRole("button", { name: "Submit run" }).click();
+    await page.waitForURL(/\/runs\/\d+$/);
+    const runId = Number(page.url().split("/").pop());
+
+    const paused = page.getByRole("alert").filter({ hasText: /^Needs attention/ });
+    await paused.waitFor({ timeout: 60_000 });
+    expect(await paused.textContent()).toContain("Shard 0 failed 3 times at iteration 20");
+    const failedShard = page.getByRole("list", { name: "Shards" }).getByRole("listitem", { name: "Shard 0: Failed" });
+    await failedShard.waitFor();
+    expect(await failedShard.textContent()).toContain("injected fault");
+    const chart = page.locator("figure").filter({ hasText: "L1 residual per iteration" });
+    await expect.poll(() => chart.locator("p.sr-only").textContent()).toContain("19 iterations");
+    await shot(page, "33-run-needs-attention");
+
+    await portal.replaceRunner();
+    await page.getByRole("button", { name: "Retry failed shards" }).click();
+    await page.getByRole("status").filter({ hasText: /^Converged after/ }).waitFor({ timeout: 90_000 });
+    const run = await apiGet<RunDetail>(page, `${portal.server.url}/api/runs/${runId}`);
+    expect(run.status).toBe("converged");
+    const history = await apiGet<{ items: Array<{ k: number }> }>(page, `${portal.server.url}/api/runs/${runId}/iterations`);
+    expect(history.items.map((it) => it.k)).toEqual(Array.from({ length: run.iterations }, (_, i) => i + 1));
+    await expect.poll(() => chart.locator("p.sr-only").textContent()).toContain(`${run.iterations} iterations`);
+    expect(await page.getByRole("list", { name: "Shards" }).getByRole("listitem", { name: /Failed/ }).count()).toBe(0);
+    await shot(page, "34-run-retried");
+  });
+
   it("explains a rejected file and ingests it again with fixed options", async () => {
     const bad = path.join(work, "kestrel-harbour-links.tsv");
     writeFileSync(bad, "harbour\tmoorings\nmoorings\tferries\nferries\n\tbuoys\nbuoys\tharbour\tnot-a-weight\tx\nferries\tharbour\n");
@@ -305,7 +337,7 @@ describe("the portal's whole job in a real browser", () => {
     const rejection = page.getByRole("alert").filter({ hasText: "This file was not turned into a graph." });
     await rejection.waitFor({ timeout: 60_000 });
     expect(await rejection.textContent()).toContain("kestrel-harbour-links.tsv");
-    await shot(page, "33-graph-rejected");
+    await shot(page, "35-graph-rejected");
     await page.getByRole("button", { name: "Fix options and retry" }).click();
     const retry = page.getByRole("form", { name: "Retry with other options" });
     await retry.getByLabel("Bad lines allowed").fill("5");
@@ -313,23 +345,23 @@ describe("the portal's whole job in a real browser", () => {
     await page.getByRole("heading", { name: "Validation report" }).waitFor({ timeout: 60_000 });
     const badLines = page.getByRole("table", { name: "Sampled bad lines" });
     expect(await badLines.getByRole("row").count()).toBeGreaterThan(1);
-    await shot(page, "34-graph-bad-lines");
+    await shot(page, "36-graph-bad-lines");
   });
 
   it("lists the runs and shows the overview with the worker pool", async () => {
     await page.getByRole("navigation", { name: "Main" }).getByRole("link", { name: "Runs" }).click();
     const table = page.getByRole("table", { name: "Ranking runs of this team" });
     await table.waitFor();
-    await expect.poll(() => table.getByRole("row").count()).toBe(4);
+    await expect.poll(() => table.getByRole("row").count()).toBe(5);
     await page.getByRole("group", { name: "Filter runs" }).getByLabel("Status").selectOption("converged");
     await page.waitForURL(/status=converged/);
-    await expect.poll(() => table.getByRole("row").count()).toBe(3);
-    await shot(page, "35-runs");
+    await expect.poll(() => table.getByRole("row").count()).toBe(4);
+    await shot(page, "37-runs");
     await page.getByRole("navigation", { name: "Main" }).getByRole("link", { name: "Overview" }).click();
     const workers = page.getByRole("table", { name: "Runner processes and their last heartbeat" });
     await workers.waitFor();
     expect(await workers.textContent()).toContain("Healthy");
-    await shot(page, "36-overview");
+    await shot(page, "38-overview");
   });
 
   it("gives a viewer the results without any control that changes something", async () => {
@@ -347,7 +379,7 @@ describe("the portal's whole job in a real browser", () => {
     await page.getByRole("table", { name: /^Top 100 nodes by score/ }).waitFor();
     expect(await page.getByRole("button", { name: /Cancel run|Retry failed shards/ }).count()).toBe(0);
     expect(await page.getByRole("link", { name: /^Download CSV/ }).count()).toBe(1);
-    await shot(page, "37-viewer-results");
+    await shot(page, "39-viewer-results");
     await page.goto(`${portal.server.url}/runs/new`);
     await page.getByText("Engineers and admins submit runs").waitFor();
     expect(browser.pageErrors).toEqual([]);
@@ -357,7 +389,7 @@ describe("the portal's whole job in a real browser", () => {
       `404 GET /api/runs/${uniformRunId}/nodes/${encodeURIComponent("https://nowhere.kestrel.example/")}`,
       "400 POST /api/runs",
     ]);
-    const unexpected = browser.consoleProblems.filter((problem) => !/status of (404|400)/.test(problem));
+    const unexpected = browser.consoleProblems.filter((problem) => !/status of (400|404|409)/.test(problem));
     expect(unexpected).toEqual([]);
   });
 });
