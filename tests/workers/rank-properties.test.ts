@@ -28,6 +28,26 @@ describe("probability vector", () => {
   }
 });
 
+describe("zero cases", () => {
+  it("a graph without edges keeps the teleport vector: every node is dangling", async () => {
+    const g = fromDenseEdges(5, new Uint32Array(0), new Uint32Array(0));
+    const r = await rank(g, PARAMS, { pool });
+    expect(r.converged).toBe(true);
+    expect(Array.from(r.scores)).toEqual(Array(5).fill(0.2));
+    expect(r.danglingMass[0]).toBeCloseTo(1, 15);
+    const seeded = await rank(g, { ...PARAMS, teleport: { kind: "seeds", seeds: [{ node: 2, weight: 1 }] } }, { pool });
+    expect(Array.from(seeded.scores)).toEqual([0, 0, 1, 0, 0]);
+  });
+
+  it("maxIterations 0 returns x_0 = t unconverged, and the empty graph is refused", async () => {
+    const g = fromDenseEdges(4, Uint32Array.of(0, 1), Uint32Array.of(1, 2));
+    const r = await rank(g, { ...PARAMS, maxIterations: 0 }, { pool });
+    expect(r).toMatchObject({ iterations: 0, stopReason: "iteration-cap", converged: false, residuals: [] });
+    expect(Array.from(r.scores)).toEqual([0.25, 0.25, 0.25, 0.25]);
+    await expect(rank(fromDenseEdges(0, new Uint32Array(0), new Uint32Array(0)), PARAMS, { pool })).rejects.toThrow(/graph\.n/);
+  });
+});
+
 describe("nodes without in-edges", () => {
   it("score exactly (1−α)/n + α·D/n, D the dangling mass of the iterate the last step read", async () => {
     const e = applyPolicies(randomEdges(77, 3000, 2, 0.3), true);
