@@ -382,6 +382,28 @@ describe("the portal's whole job in a real browser", () => {
     await shot(page, "39-viewer-results");
     await page.goto(`${portal.server.url}/runs/new`);
     await page.getByText("Engineers and admins submit runs").waitFor();
+
+    // A small laptop screen: no page scrolls sideways; wide tables scroll inside their own box.
+    await page.setViewportSize({ width: 1024, height: 720 });
+    const pages = [
+      [`/graphs`, "Catalog"],
+      [`/graphs/${graphId}`, "Validation report"],
+      [`/runs`, "Runs"],
+      [`/runs/${uniformRunId}`, "Convergence"],
+      [`/runs/${uniformRunId}/results`, "Score files"],
+      [`/compare?a=${uniformRunId}&b=${seededRunId}`, "Biggest movers up"],
+      [`/`, "Worker pool"],
+    ] as const;
+    for (const [url, heading] of pages) {
+      await page.goto(`${portal.server.url}${url}`);
+      await page.getByRole("heading", { name: heading, exact: true }).first().waitFor();
+      expect(await page.evaluate(() => document.documentElement.scrollWidth - window.innerWidth), url).toBeLessThanOrEqual(0);
+    }
+    await shot(page, "40-compare-narrow");
+    await page.goto(`${portal.server.url}/runs/${uniformRunId}`);
+    await page.getByRole("heading", { name: "Convergence", exact: true }).first().waitFor();
+    await shot(page, "41-run-narrow");
+    await page.setViewportSize({ width: 1360, height: 860 });
     expect(browser.pageErrors).toEqual([]);
     // Two failures were provoked on purpose: the unknown node lookup and the unknown seed id.
     // tus answers 409 to a PATCH at a stale offset right after the reload; the client then asks for the offset and goes on.

@@ -49,9 +49,8 @@ function Verdict({ run }: { run: RunDetail }) {
       return box(
         "accent",
         <>
-          <strong className="font-semibold">Needs attention.</strong> {run.statusReason ?? "Shards kept failing after their automatic retries."} Retrying resumes
-          from the last checkpoint{run.lastCheckpoint !== null ? <> (iteration <span className="num">{run.lastCheckpoint}</span>)</> : null} and keeps the residual
-          history.
+          <strong className="font-semibold">Needs attention.</strong> {run.statusReason ?? "Shards kept failing after their automatic retries."} Retrying the
+          failed shards keeps the residual history.
         </>,
       );
     case "failed":

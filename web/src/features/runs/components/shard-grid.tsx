@@ -52,7 +52,8 @@ export function ShardGrid({ shards }: { shards: Shard[] }) {
               {shard.worker ?? "no worker"} · {formatDateTime(shard.updatedAt).slice(11)}
             </div>
             {shard.lastError ? (
-              <p className="mt-1 line-clamp-2 text-danger" title={shard.lastError}>
+              <p className={clsx("mt-1 line-clamp-2", shard.state === "done" ? "text-ink-muted" : "text-danger")} title={shard.lastError}>
+                {shard.state === "done" ? "earlier: " : ""}
                 {shard.lastError}
               </p>
             ) : null}

@@ -61,7 +61,7 @@ export function UploadPanel({ limits, onUploaded }: UploadPanelProps) {
           width="100%"
           height={300}
           theme="light"
-          note={note}
+          note={null}
           proudlyDisplayPoweredByUppy={false}
           hideProgressDetails={false}
           showRemoveButtonAfterComplete
@@ -70,6 +70,7 @@ export function UploadPanel({ limits, onUploaded }: UploadPanelProps) {
       ) : (
         <Loading label="Preparing the uploader…" />
       )}
+      <p className="mt-2 text-xs text-ink-muted">{note}.</p>
     </div>
   );
 }
