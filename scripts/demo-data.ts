@@ -1,16 +1,7 @@
 // Invented demo data: a crawl of the Kestrel Isles' public sites (string ids: URLs) with a small link farm around a
 // "best ferry deals" page, and the citation graph of the Kestrel Review of Tidal Science (integer ids). Deterministic.
 
-function prng(seed: number): () => number {
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
+import { mulberry32 as prng } from "../workers/src/core/prng";
 
 /** Appends ASCII lines to one growing buffer: a few hundred thousand short-lived strings instead of one long-lived array. */
 class Lines {

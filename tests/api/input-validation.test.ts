@@ -10,6 +10,7 @@ import type { Runner } from "../../workers/src/runner/main";
 import { removeDir, tempDataDir } from "./runner-support";
 import { createTeams, runnerFor, seedTeam, type SeededTeam } from "./security-support";
 import { signedIn, startTestServer, type ApiClient, type ApiResponse } from "./support";
+import { mulberry32 as seeded } from "../../workers/src/core/prng";
 
 const MUTATIONS = new Set(["post", "put", "patch", "delete"]);
 const NEVER = 987_654_321;
@@ -45,17 +46,6 @@ async function rawRequest(client: ApiClient, method: string, path: string, body:
   return { status: res.status, headers: res.headers, body: text && res.headers.get("content-type")?.includes("json") ? JSON.parse(text) : text };
 }
 
-/** mulberry32: a small seeded generator, so a failing body can be replayed from the seed. */
-function seeded(seed: number): () => number {
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
 
 describe("API input validation", () => {
   let server: RunningServer;

@@ -10,6 +10,7 @@ import { graphs, runEvents, runIterations, runs, uploads } from "../../api/src/d
 import { insertTeam, insertUser, upsertMembership } from "../../api/src/features/team/team.repo";
 import { createDb, createPool, type Db, type DbPool, type DbSettings } from "../../api/src/lib/db";
 import type { RunnerConfig } from "../../workers/src/runner/config";
+import { mulberry32 as prng } from "../../workers/src/core/prng";
 
 export const ROOT = path.resolve(import.meta.dirname, "../..");
 
@@ -194,16 +195,6 @@ export async function waitForGraph(db: Db, graphId: number, timeoutMs = 60_000) 
   }, timeoutMs);
 }
 
-function prng(seed: number): () => number {
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
 
 /**
  * A small skewed random graph as "source target" lines: every node has 0..6 out-links (some nodes dangling), targets

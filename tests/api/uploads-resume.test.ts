@@ -12,21 +12,11 @@ import type { RunningServer } from "../../api/src/server";
 import { tokenClient, tusUpload } from "./portal-support";
 import { removeDir, tempDataDir } from "./runner-support";
 import { createTestTeam, startTestServer, type ApiClient, type TestTeam } from "./support";
+import { mulberry32 as seeded } from "../../workers/src/core/prng";
 
 const MAX_UPLOAD = 4 * 2 ** 20;
 const sha256 = (b: Buffer) => createHash("sha256").update(b).digest("hex");
 
-/** mulberry32, so a failing run can be replayed from its seed. */
-function seeded(seed: number): () => number {
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
 
 /** An edge list of about `bytes` bytes with distinct lines, so that a misplaced chunk changes the digest. */
 function edgeBytes(bytes: number, salt: number): Buffer {

@@ -2,17 +2,9 @@
 import { fromDenseEdges, type Graph } from "../../workers/src/core/graph";
 import type { RankParams } from "../../workers/src/engine/rank";
 
-/** Deterministic PRNG (mulberry32) so every failing case can be replayed from its seed. */
-export function prng(seed: number): () => number {
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
+import { mulberry32 as prng } from "../../workers/src/core/prng";
+
+export { prng };
 
 export interface EdgeList {
   n: number;
