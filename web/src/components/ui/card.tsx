@@ -12,7 +12,7 @@ type CardProps = {
 
 export function Card({ title, description, actions, className, bodyClassName, children }: CardProps) {
   return (
-    <section className={clsx("rounded-lg border border-rule bg-paper-raised", className)}>
+    <section className={clsx("min-w-0 rounded-lg border border-rule bg-paper-raised", className)}>
       {title || actions ? (
         <header className="flex items-start justify-between gap-4 border-b border-rule px-4 py-3">
           <div className="min-w-0">

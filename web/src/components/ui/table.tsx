@@ -1,9 +1,11 @@
 import clsx from "clsx";
 import type { HTMLAttributes, ReactNode, TdHTMLAttributes, ThHTMLAttributes } from "react";
 
+// relative: screen-reader-only text inside cells is absolutely positioned; without a positioned wrapper it escapes the
+// scroll box of a wide table and widens the whole page.
 export function Table({ caption, children, className }: { caption: string; children: ReactNode; className?: string }) {
   return (
-    <div className={clsx("overflow-x-auto", className)}>
+    <div className={clsx("relative overflow-x-auto", className)}>
       <table className="w-full border-collapse text-left text-sm">
         <caption className="sr-only">{caption}</caption>
         {children}
