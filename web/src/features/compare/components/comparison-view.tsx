@@ -91,7 +91,7 @@ export function ComparisonView({ comparison: c }: { comparison: Comparison }) {
           { label: "Graphs", value: c.a.graph.id === c.b.graph.id ? "same" : "different", hint: c.a.graph.id === c.b.graph.id ? c.a.graph.name : `${c.a.graph.name} → ${c.b.graph.name}` },
         ]}
       />
-      <div className="grid gap-5 lg:grid-cols-2">
+      <div className="grid gap-5 xl:grid-cols-2">
         <Card title="Biggest movers up" description="Ranked higher in B than in A." bodyClassName="p-0">
           <MoversTable caption="Nodes that moved up the most" movers={c.moversUp} direction="up" />
         </Card>

@@ -78,8 +78,8 @@ export function DegreePlot({ inDegree, outDegree }: { inDegree: DegreeBin[]; out
           }}
           contentStyle={{ fontSize: 12, borderColor: "var(--color-rule-strong)", background: "var(--color-paper-raised)" }}
         />
-        <Line data={inPoints} dataKey="nodes" name="in-degree" stroke={CHART.ink} strokeWidth={2} dot={{ r: 2.5 }} connectNulls={false} isAnimationActive={false} />
-        <Line data={outPoints} dataKey="nodes" name="out-degree" stroke={CHART.amber} strokeWidth={2} strokeDasharray="5 3" dot={{ r: 2.5 }} connectNulls={false} isAnimationActive={false} />
+        <Line data={inPoints} dataKey="nodes" name="in-degree" stroke={CHART.ink} strokeWidth={2} dot={{ r: 3, fill: CHART.ink, strokeWidth: 0 }} connectNulls={false} isAnimationActive={false} />
+        <Line data={outPoints} dataKey="nodes" name="out-degree" stroke={CHART.amber} strokeWidth={2} strokeDasharray="5 3" dot={{ r: 3, fill: CHART.amber, strokeWidth: 0, strokeDasharray: "0" }} connectNulls={false} isAnimationActive={false} />
       </LineChart>
     </ChartFrame>
   );
