@@ -12,6 +12,8 @@ export interface ShardState {
   attempts: number;
   worker?: number;
   lastError?: string;
+  /** Kernel time of the attempt that succeeded. */
+  kernelMs?: number;
 }
 
 /** Test-only: make `shard` fail in the step that produces x_iteration, on attempt `attempt` (1-based). */
@@ -98,6 +100,7 @@ export async function runShard(
       const done = await pool.run(attemptTask, ac.signal);
       st.state = "done";
       st.worker = done.threadId;
+      st.kernelMs = done.kernelMs;
       return "done";
     } catch (err) {
       if (cancel?.aborted) return "canceled";

@@ -46,6 +46,8 @@ export interface ShardTask {
 
 export interface ShardDone {
   threadId: number;
+  /** Time inside the kernel, for shard timings. */
+  kernelMs: number;
 }
 
 export interface RunViews {

@@ -11,7 +11,8 @@ export default function rankShard(t: ShardTask): ShardDone {
   const { views: v, wasm } = cachedRun(t.runId, t.buffers);
   const [x0, x1, c0, c1] = [v.x[t.cur], v.x[1 - t.cur], v.c[t.cur], v.c[1 - t.cur]];
   const args = { ...v, start: t.start, end: t.end, c0, x0, x1, c1, scalars: t.scalars, blockNodes: t.blockNodes };
+  const t0 = performance.now();
   if (wasm) wasmStep(wasm, args);
   else pullStep(args);
-  return { threadId };
+  return { threadId, kernelMs: performance.now() - t0 };
 }
