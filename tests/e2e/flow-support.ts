@@ -5,11 +5,12 @@ import path from "node:path";
 import type { Page } from "playwright-core";
 import { expect, inject } from "vitest";
 import { loadConfig } from "../../api/src/config";
-import { findTeamByName } from "../../api/src/features/team/team.repo";
+import { findTeamByName, findUserByEmail, updateUserPassword } from "../../api/src/features/team/team.repo";
+import { hashPassword } from "../../api/src/lib/passwords";
 import { startServer, type RunningServer } from "../../api/src/server";
 import { startRunner, type Runner, type RunnerConfig } from "../../workers/src/runner/main";
 import { runnerConfig } from "../api/runner-support";
-import { DEMO_PASSWORD, DEMO_TEAM, screenshot, seedDemo } from "./support";
+import { DEMO_PASSWORD, DEMO_TEAM, DEMO_USERS, screenshot, seedDemo } from "./support";
 
 export interface FlowPortal {
   server: RunningServer;
@@ -41,6 +42,12 @@ export async function startFlowPortal(): Promise<FlowPortal> {
     }),
   );
   await seedDemo(server.deps.db);
+  // Other browser tests in this database may have changed a demo password (the reset flow does); put them back.
+  const passwordHash = await hashPassword(DEMO_PASSWORD);
+  for (const demo of DEMO_USERS) {
+    const user = await findUserByEmail(server.deps.db, demo.email);
+    if (user) await updateUserPassword(server.deps.db, user.id, passwordHash);
+  }
   const team = await findTeamByName(server.deps.db, DEMO_TEAM);
   if (!team) throw new Error("demo team missing after seeding");
   const teamId = team.id;
