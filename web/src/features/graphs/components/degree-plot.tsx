@@ -27,8 +27,9 @@ export function DegreePlot({ inDegree, outDegree }: { inDegree: DegreeBin[]; out
   const outPoints = toPoints(outDegree);
   const all = [...inPoints, ...outPoints].filter((p): p is Point & { nodes: number } => p.nodes !== null);
   if (all.length === 0) return <p className="text-[0.8125rem] text-ink-muted">No node has an edge, so there is no degree distribution to draw.</p>;
-  const xTicks = decadeTicks(Math.min(...all.map((p) => p.min)), Math.max(...all.map((p) => p.max)));
-  const yTicks = decadeTicks(1, Math.max(...all.map((p) => p.nodes)));
+  // Degrees and counts are whole numbers ≥ 1: the axes start at 1 and span at least one decade.
+  const xTicks = decadeTicks(Math.max(1, Math.min(...all.map((p) => p.min))), Math.max(10, ...all.map((p) => p.max)));
+  const yTicks = decadeTicks(1, Math.max(10, ...all.map((p) => p.nodes)));
   const summary =
     `Log-log degree distribution. In-degree: ${inPoints.filter((p) => p.nodes).length} bins, highest bin up to degree ${formatCount(inPoints.at(-1)?.max)}; ` +
     `out-degree: ${outPoints.filter((p) => p.nodes).length} bins, highest bin up to degree ${formatCount(outPoints.at(-1)?.max)}. ` +
