@@ -139,7 +139,18 @@ describe("portal routes: roles, teams, rejections, cancel and retry", () => {
     expect(canceled.body.status).toBe("canceled");
     expect((await idleClient.post(`/api/runs/${queued.body.id}/cancel`)).status).toBe(409);
 
-    const long = await engineer.post<{ id: number }>("/api/runs", { graphId, tolerance: 1e-300, maxIterations: 10000 });
+    // A directed chain whose end teleports: the walk mixes in about its length, so with α close to 1 the residual
+    // shrinks by roughly 0.999 an iteration and 10,000 iterations cannot reach the tolerance (or a bitwise fixed
+    // point, which a small fast-mixing graph reaches within a second on a quiet machine).
+    const chainText = Array.from({ length: 3000 }, (_, i) => `${i},${i + 1}`).join("\n") + "\n";
+    const chain = await graphFrom(chainText, "slow-chain");
+    expect(chain.detail.status).toBe("ready");
+    const long = await engineer.post<{ id: number }>("/api/runs", {
+      graphId: chain.detail.id,
+      damping: 0.99999,
+      tolerance: 1e-300,
+      maxIterations: 10000,
+    });
     await waitFor("iterations of the long run", async () => {
       const detail = RunDetailSchema.parse((await engineer.get(`/api/runs/${long.body.id}`)).body);
       return detail.status === "running" && detail.iterations > 3;
