@@ -4,7 +4,7 @@ import { tmpdir } from "node:os";
 import path from "node:path";
 import type { Page } from "playwright-core";
 import { expect, inject } from "vitest";
-import { loadConfig } from "../../api/src/config";
+import { testConfig } from "../api/support";
 import { findTeamByName, findUserByEmail, updateUserPassword } from "../../api/src/features/team/team.repo";
 import { hashPassword } from "../../api/src/lib/passwords";
 import { startServer, type RunningServer } from "../../api/src/server";
@@ -23,19 +23,9 @@ export interface FlowPortal {
 
 /** The real server and an in-process runner sharing one temporary data directory; the runner serves the demo team only. */
 export async function startFlowPortal(): Promise<FlowPortal> {
-  const db = inject("db");
   const dataDir = mkdtempSync(path.join(tmpdir(), "stillpoint-e2e-data-"));
   const server = await startServer(
-    loadConfig({
-      NODE_ENV: "test",
-      STILLPOINT_PORT: "0",
-      STILLPOINT_DB_HOST: db.host,
-      STILLPOINT_DB_PORT: String(db.port),
-      STILLPOINT_DB_USER: db.user,
-      STILLPOINT_DB_PASSWORD: db.password,
-      STILLPOINT_DB_NAME: db.database,
-      STILLPOINT_SESSION_SECRET: inject("sessionSecret"),
-      STILLPOINT_FAKE_SMTP: "1",
+    testConfig({
       STILLPOINT_DATA_DIR: dataDir,
       STILLPOINT_WEB_DIR: inject("webDistDir"),
       STILLPOINT_LOG_LEVEL: "error",

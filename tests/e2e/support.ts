@@ -4,7 +4,7 @@ import path from "node:path";
 import { chromium, type BrowserContext, type Page } from "playwright-core";
 import { inject } from "vitest";
 import type { Role } from "../../api/contracts/common";
-import { loadConfig } from "../../api/src/config";
+import { testConfig } from "../api/support";
 import { findTeamByName, findUserByEmail, insertTeam, insertUser, upsertMembership } from "../../api/src/features/team/team.repo";
 import type { Db } from "../../api/src/lib/db";
 import { hashPassword } from "../../api/src/lib/passwords";
@@ -22,18 +22,8 @@ export const ARTIFACTS_DIR = path.resolve(import.meta.dirname, "../artifacts");
 
 /** The real server (API, fake mail, built web app) on a free port against the test database. */
 export function startPortal(): Promise<RunningServer> {
-  const db = inject("db");
   return startServer(
-    loadConfig({
-      NODE_ENV: "test",
-      STILLPOINT_PORT: "0",
-      STILLPOINT_DB_HOST: db.host,
-      STILLPOINT_DB_PORT: String(db.port),
-      STILLPOINT_DB_USER: db.user,
-      STILLPOINT_DB_PASSWORD: db.password,
-      STILLPOINT_DB_NAME: db.database,
-      STILLPOINT_SESSION_SECRET: inject("sessionSecret"),
-      STILLPOINT_FAKE_SMTP: "1",
+    testConfig({
       STILLPOINT_DATA_DIR: ".test-data",
       STILLPOINT_WEB_DIR: inject("webDistDir"),
       STILLPOINT_LOG_LEVEL: "error",
