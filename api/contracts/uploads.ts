@@ -1,7 +1,7 @@
 import { z } from "zod";
 import { IdSchema, PageQuerySchema, pageSchema, TimestampSchema } from "./common";
 
-export const UPLOAD_STATES = ["uploading", "complete", "aborted"] as const;
+export const UPLOAD_STATES = ["uploading", "complete", "aborted", "expired"] as const;
 export const UploadStateSchema = z.enum(UPLOAD_STATES);
 export type UploadState = z.infer<typeof UploadStateSchema>;
 
@@ -30,10 +30,12 @@ export const UploadSchema = z.object({
   uploadedBy: z.object({ userId: IdSchema, name: z.string() }).nullable(),
   createdAt: TimestampSchema,
   completedAt: TimestampSchema.nullable(),
+  /** While unfinished: when the server removes the partial data and the upload can no longer be resumed. */
+  expiresAt: TimestampSchema.nullable(),
 });
 export type Upload = z.infer<typeof UploadSchema>;
 
-/** Defaults to finished uploads; `state=all` includes unfinished and aborted ones. */
+/** Defaults to finished uploads; `state=all` includes unfinished, aborted (deleted) and expired ones. */
 export const UploadQuerySchema = PageQuerySchema.extend({
   state: z.enum([...UPLOAD_STATES, "all"]).default("complete"),
 });
@@ -45,6 +47,8 @@ export const UploadLimitsSchema = z.object({
   /** The team's storage quota in bytes (null: unlimited) and what its uploads use now (declared sizes). */
   quotaBytes: z.number().int().positive().nullable(),
   usedBytes: z.number().int().nonnegative(),
+  /** Hours an upload may stay unfinished before it is removed (and stops counting against the quota). */
+  unfinishedExpiryHours: z.number().positive(),
 });
 export type UploadLimits = z.infer<typeof UploadLimitsSchema>;
 

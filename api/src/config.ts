@@ -31,6 +31,7 @@ const EnvSchema = z.object({
   STILLPOINT_WEB_DIR: z.string().optional(),
   STILLPOINT_MAX_UPLOAD_BYTES: z.coerce.number().int().positive().default(64 * 2 ** 30),
   STILLPOINT_TEAM_QUOTA_BYTES: z.coerce.number().int().positive().optional(),
+  STILLPOINT_UPLOAD_EXPIRY_HOURS: z.coerce.number().positive().max(24 * 365).default(24),
 });
 
 export interface Config {
@@ -49,8 +50,11 @@ export interface Config {
   trustProxy: boolean;
   /** Directory of the built web app to serve; absent means API only. */
   webDir: string | undefined;
-  /** Largest single upload; a team's `quotas.maxStorageBytes` (else `defaultQuotaBytes`, else none) bounds the sum. */
-  uploads: { maxBytes: number; defaultQuotaBytes: number | null };
+  /**
+   * Largest single upload; a team's `quotas.maxStorageBytes` (else `defaultQuotaBytes`, else none) bounds the sum.
+   * An upload still unfinished `expiryMs` after its creation is removed and stops counting against the quota.
+   */
+  uploads: { maxBytes: number; defaultQuotaBytes: number | null; expiryMs: number };
 }
 
 export class ConfigError extends Error {}
@@ -96,6 +100,10 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env): Config {
     signIn: { maxFailures: e.STILLPOINT_SIGNIN_MAX_FAILURES, windowMs: e.STILLPOINT_SIGNIN_WINDOW_MINUTES * 60_000 },
     trustProxy: e.STILLPOINT_TRUST_PROXY,
     webDir: e.STILLPOINT_WEB_DIR,
-    uploads: { maxBytes: e.STILLPOINT_MAX_UPLOAD_BYTES, defaultQuotaBytes: e.STILLPOINT_TEAM_QUOTA_BYTES ?? null },
+    uploads: {
+      maxBytes: e.STILLPOINT_MAX_UPLOAD_BYTES,
+      defaultQuotaBytes: e.STILLPOINT_TEAM_QUOTA_BYTES ?? null,
+      expiryMs: Math.round(e.STILLPOINT_UPLOAD_EXPIRY_HOURS * 3_600_000),
+    },
   };
 }

@@ -7,6 +7,7 @@ import { createApp } from "./app";
 import { loadConfig, type Config } from "./config";
 import type { AppDeps } from "./deps";
 import { storeCapturedMail, storeDelivery } from "./features/outbox/outbox.service";
+import { startUploadSweeper } from "./features/uploads/upload-expiry";
 import { createDb, createPool } from "./lib/db";
 import { createLogger, type Logger } from "./lib/logger";
 import { startFakeSmtp, type FakeSmtp } from "./lib/mail/fake-smtp";
@@ -68,6 +69,7 @@ export async function startServer(config: Config, logger: Logger = createLogger(
   const shownHost = config.host === "0.0.0.0" || config.host === "::" ? "localhost" : config.host;
   const url = `http://${shownHost}:${port}`;
   publicUrl ||= url;
+  const sweeper = startUploadSweeper(deps);
 
   let closing: Promise<void> | null = null;
   return {
@@ -81,6 +83,7 @@ export async function startServer(config: Config, logger: Logger = createLogger(
           server.close(() => resolve());
           server.closeIdleConnections();
         });
+        await sweeper.stop();
         await built.close();
         mailer.close();
         await fakeSmtp?.close();

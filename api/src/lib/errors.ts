@@ -32,6 +32,7 @@ export const ERRORS = {
   scoresNotAvailable: { status: 409, code: "scores_not_available", message: "This run has no score file." },
   tokenExpired: { status: 410, code: "token_expired", message: "This link has expired." },
   tokenUsed: { status: 410, code: "token_used", message: "This link has already been used." },
+  uploadExpired: { status: 410, code: "upload_expired", message: "The upload was not finished in time and has been removed." },
   payloadTooLarge: { status: 413, code: "payload_too_large", message: "The request body is too large." },
   uploadTooLarge: { status: 413, code: "upload_too_large", message: "The file is larger than the upload limit." },
   quotaExceeded: { status: 413, code: "quota_exceeded", message: "The upload would exceed the team's storage quota." },

@@ -2,7 +2,7 @@ import { bigint, boolean, index, json, mysqlEnum, mysqlTable, text, uniqueIndex,
 import { teams, users } from "./accounts";
 import { at, createdAt, id, ref, updatedAt } from "./columns";
 
-export const UPLOAD_STATES = ["uploading", "complete", "aborted"] as const;
+export const UPLOAD_STATES = ["uploading", "complete", "aborted", "expired"] as const;
 export const GRAPH_STATUSES = ["queued", "ingesting", "ready", "rejected"] as const;
 
 /** One tus upload: its state mirrors the tus store so the portal can list and resume uploads. */

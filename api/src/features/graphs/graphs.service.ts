@@ -139,6 +139,9 @@ export async function getGraphDetail(deps: AppDeps, principal: Principal, id: nu
 export async function createGraph(deps: AppDeps, principal: Principal, input: CreateGraph, ip: string | null): Promise<Created> {
   const upload = await findUpload(deps.db, principal.teamId, input.uploadId);
   if (!upload || upload.state === "aborted") throw new AppError(ERRORS.notFound, { message: "There is no such upload." });
+  if (upload.state === "expired") {
+    throw new AppError(ERRORS.uploadExpired, { message: "This upload was never finished and has been removed; upload the file again." });
+  }
   if (upload.state !== "complete") {
     throw new AppError(ERRORS.uploadNotComplete, {
       message: `The upload has ${upload.offset} of ${upload.size ?? "?"} bytes; finish it first.`,

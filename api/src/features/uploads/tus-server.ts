@@ -1,7 +1,7 @@
 import { randomBytes } from "node:crypto";
 import type { Request as ExpressRequest, Response as ExpressResponse } from "express";
 import { FileStore } from "@tus/file-store";
-import { Server, type ServerOptions } from "@tus/server";
+import { MemoryLocker, Server, type ServerOptions, type Upload as TusUpload } from "@tus/server";
 import type { ErrorBody } from "../../../contracts/common";
 import { UPLOAD_ID_HEADER } from "../../../contracts/uploads";
 import type { AppDeps } from "../../deps";
@@ -50,15 +50,56 @@ function guarded<A extends unknown[], R>(hook: (...args: A) => Promise<R>): (...
   };
 }
 
-const servers = new WeakMap<AppDeps, Server>();
+/**
+ * The file store with tus's expiration extension (Upload-Expires on creation and PATCH, 410 on a stale HEAD/PATCH).
+ * Expiry applies to unfinished files only: a complete file drops its creation date, so tus never calls it gone.
+ * Hazard: never call the tus server's `cleanUpExpiredUploads`: it reads offsets from the `.json` sidecar, which stays 0,
+ * and would delete finished uploads too; the sweep in upload-expiry.ts removes stale uploads instead.
+ */
+class ExpiringFileStore extends FileStore {
+  override async getUpload(id: string): Promise<TusUpload> {
+    const upload = await super.getUpload(id);
+    if (upload.size !== undefined && upload.offset === upload.size) upload.creation_date = undefined;
+    return upload;
+  }
+}
+
+interface TusHandle {
+  server: Server;
+  locker: MemoryLocker;
+}
+
+const servers = new WeakMap<AppDeps, TusHandle>();
 
 /** One tus server per app: files under `<data dir>/uploads/<tusId>`, rows in `uploads`, team-scoped ids. */
 export function tusServer(deps: AppDeps): Server {
+  return tusHandle(deps).server;
+}
+
+/**
+ * Runs `fn` holding the tus lock of one upload, as the PATCH handler does; a PATCH in flight is asked to stop first.
+ */
+export async function withUploadLock<T>(deps: AppDeps, tusId: string, fn: () => Promise<T>): Promise<T> {
+  const lock = tusHandle(deps).locker.newLock(tusId);
+  await lock.lock(new AbortController().signal, () => undefined);
+  try {
+    return await fn();
+  } finally {
+    await lock.unlock();
+  }
+}
+
+function tusHandle(deps: AppDeps): TusHandle {
   const existing = servers.get(deps);
   if (existing) return existing;
+  const locker = new MemoryLocker();
   const server = new Server({
     path: TUS_PATH,
-    datastore: new FileStore({ directory: uploadsDir(deps.config.dataDir) }),
+    datastore: new ExpiringFileStore({
+      directory: uploadsDir(deps.config.dataDir),
+      expirationPeriodInMilliseconds: deps.config.uploads.expiryMs,
+    }),
+    locker,
     maxSize: deps.config.uploads.maxBytes,
     relativeLocation: true,
     respectForwardedHeaders: deps.config.trustProxy,
@@ -97,8 +138,9 @@ export function tusServer(deps: AppDeps): Server {
       return tusFailure(new AppError({ status, code: status === 413 ? "upload_too_large" : "upload_protocol", message }));
     },
   });
-  servers.set(deps, server);
-  return server;
+  const handle = { server, locker };
+  servers.set(deps, handle);
+  return handle;
 }
 
 /**

@@ -1,4 +1,4 @@
-import { and, desc, eq, inArray, isNull, lt, ne, sql } from "drizzle-orm";
+import { and, asc, desc, eq, gt, inArray, isNull, lt, notInArray, sql } from "drizzle-orm";
 import { graphs, teams, uploads, users } from "../../db/schema";
 import type { Executor } from "../../lib/db";
 
@@ -9,12 +9,15 @@ export async function teamQuotaBytes(db: Executor, teamId: number): Promise<numb
   return rows[0]?.quotas.maxStorageBytes ?? null;
 }
 
-/** Declared bytes of the team's uploads that still hold data (aborted ones are gone from disk). */
+/** Uploads whose bytes are gone from disk: they no longer count against the quota. */
+export const REMOVED_STATES = ["aborted", "expired"] as const satisfies readonly UploadRow["state"][];
+
+/** Declared bytes of the team's uploads that still hold data. */
 export async function teamUsedBytes(db: Executor, teamId: number): Promise<number> {
   const rows = await db
     .select({ used: sql<string | null>`sum(coalesce(${uploads.size}, ${uploads.offset}))` })
     .from(uploads)
-    .where(and(eq(uploads.teamId, teamId), ne(uploads.state, "aborted")));
+    .where(and(eq(uploads.teamId, teamId), notInArray(uploads.state, [...REMOVED_STATES])));
   return Number(rows[0]?.used ?? 0);
 }
 
@@ -51,6 +54,25 @@ export async function completeUpload(db: Executor, id: number, offset: number, c
 
 export async function abortUpload(db: Executor, id: number): Promise<void> {
   await db.update(uploads).set({ state: "aborted" }).where(eq(uploads.id, id));
+}
+
+/** Unfinished uploads created before `cutoff`, in id order after `afterId`. */
+export async function findStaleUploads(db: Executor, cutoff: Date, afterId: number, limit: number): Promise<UploadRow[]> {
+  return db
+    .select()
+    .from(uploads)
+    .where(and(eq(uploads.state, "uploading"), lt(uploads.createdAt, cutoff), gt(uploads.id, afterId)))
+    .orderBy(asc(uploads.id))
+    .limit(limit);
+}
+
+/** Marks one unfinished upload expired; false when it finished, was deleted or is not old enough any more. */
+export async function markUploadExpired(db: Executor, id: number, cutoff: Date): Promise<boolean> {
+  const [result] = await db
+    .update(uploads)
+    .set({ state: "expired" })
+    .where(and(eq(uploads.id, id), eq(uploads.state, "uploading"), lt(uploads.createdAt, cutoff)));
+  return result.affectedRows === 1;
 }
 
 /** Graphs that still use the upload (deleted graphs do not count). */

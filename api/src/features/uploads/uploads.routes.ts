@@ -6,17 +6,27 @@ import type { Principal } from "../../http/principal";
 import { defineRawRoute, defineRoute } from "../../http/route";
 import { AppError, ERRORS } from "../../lib/errors";
 import { handleTus, TUS_PATH, tusServer } from "./tus-server";
+import { expiredError, expireUpload, isStale } from "./upload-expiry";
 import type { UploadRow } from "./uploads.repo";
 import { checkUploadSize, getUploadPage, ownedUpload, recordOffset, terminated } from "./uploads.service";
 
 const TusParamsSchema = z.strictObject({ tusId: z.string().regex(/^[0-9a-f]{32}$/, "not an upload id") });
 const TUS_PRODUCES = { "text/plain": "tus protocol answer (headers carry the state)" };
 
-/** Team scoping before the tus protocol checks, so another team's upload id is a plain 404 whatever the headers. */
+/**
+ * Team scoping before the tus protocol checks, so another team's upload id is a plain 404 whatever the headers.
+ * An expired upload answers 410 Gone, as tus's expiration extension asks; one past its expiry that the sweep has not
+ * reached yet is expired on the spot, so the answer never depends on when the sweep last ran.
+ */
 async function requireOwned(deps: AppDeps, principal: Principal, tusId: string): Promise<UploadRow> {
   const row = await ownedUpload(deps, principal, tusId);
   if (!row) throw new AppError(ERRORS.notFound, { message: "There is no such upload." });
-  return row;
+  if (!isStale(deps, row)) return row;
+  if (row.state === "uploading") await expireUpload(deps, row);
+  // Re-read: a PATCH that had every byte on disk may have completed it meanwhile.
+  const now = await ownedUpload(deps, principal, tusId);
+  if (!now || now.state === "expired") throw expiredError(deps, row);
+  return now;
 }
 
 /** Size checks that must answer before the tus handler stores a byte. */
@@ -58,7 +68,7 @@ export const uploadsRoutes = [
     access: "engineer",
     tag: "uploads",
     summary:
-      "tus creation (and creation-with-upload): `Upload-Length` and `Upload-Metadata: filename <base64>` required; refused with 413 over the size limit or the team quota",
+      "tus creation (and creation-with-upload): `Upload-Length` and `Upload-Metadata: filename <base64>` required; refused with 413 over the size limit or the team quota; Upload-Expires says when an unfinished upload is removed",
     produces: TUS_PRODUCES,
     audit: "by-service",
     handler: async ({ deps, req, res }) => {
@@ -71,7 +81,7 @@ export const uploadsRoutes = [
     path: `${TUS_PATH}/:tusId`,
     access: "engineer",
     tag: "uploads",
-    summary: "HEAD: tus offset query (Upload-Offset, Upload-Length); GET is not served",
+    summary: "HEAD: tus offset query (Upload-Offset, Upload-Length); 410 once an unfinished upload has expired; GET is not served",
     params: TusParamsSchema,
     produces: TUS_PRODUCES,
     handler: async ({ deps, principal, params, req, res }) => {
@@ -85,7 +95,8 @@ export const uploadsRoutes = [
     path: `${TUS_PATH}/:tusId`,
     access: "engineer",
     tag: "uploads",
-    summary: "tus: append bytes at Upload-Offset (Content-Type: application/offset+octet-stream); the last PATCH answers with Stillpoint-Upload-Id",
+    summary:
+      "tus: append bytes at Upload-Offset (Content-Type: application/offset+octet-stream); Upload-Expires until the last byte, which answers with Stillpoint-Upload-Id; 410 once expired",
     params: TusParamsSchema,
     produces: TUS_PRODUCES,
     audit: "by-service",

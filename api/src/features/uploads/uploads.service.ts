@@ -1,6 +1,6 @@
 import { createHash } from "node:crypto";
 import { createReadStream } from "node:fs";
-import type { Upload, UploadLimits, UploadPage, UploadQuery } from "../../../contracts/uploads";
+import { UPLOAD_STATES, type Upload, type UploadLimits, type UploadPage, type UploadQuery } from "../../../contracts/uploads";
 import type { AppDeps } from "../../deps";
 import type { Principal } from "../../http/principal";
 import { roleAtLeast } from "../../http/require-role";
@@ -46,9 +46,24 @@ function bytesText(bytes: number): string {
   return unit === 0 ? `${bytes} bytes` : `${value.toFixed(value < 10 ? 1 : 0)} ${units[unit]}`;
 }
 
+/** Unfinished uploads created before this moment have expired. */
+export function expiryCutoff(deps: AppDeps, now = Date.now()): Date {
+  return new Date(now - deps.config.uploads.expiryMs);
+}
+
+/** When an unfinished upload stops being resumable. */
+export function expiresAt(deps: AppDeps, row: Pick<UploadRow, "createdAt">): Date {
+  return new Date(row.createdAt.getTime() + deps.config.uploads.expiryMs);
+}
+
 export async function uploadLimits(deps: AppDeps, teamId: number): Promise<UploadLimits> {
   const quota = (await teamQuotaBytes(deps.db, teamId)) ?? deps.config.uploads.defaultQuotaBytes;
-  return { maxUploadBytes: deps.config.uploads.maxBytes, quotaBytes: quota, usedBytes: await teamUsedBytes(deps.db, teamId) };
+  return {
+    maxUploadBytes: deps.config.uploads.maxBytes,
+    quotaBytes: quota,
+    usedBytes: await teamUsedBytes(deps.db, teamId),
+    unfinishedExpiryHours: deps.config.uploads.expiryMs / 3_600_000,
+  };
 }
 
 /** Refuses a declared size over the server's limit, before anything is stored. */
@@ -147,7 +162,7 @@ export async function terminated(deps: AppDeps, principal: Principal, row: Uploa
   await recordActivity(deps.db, { ...byPrincipal(principal, ip), action: "upload.deleted", target: `upload ${row.id} (${row.filename})` });
 }
 
-export function toUpload(row: UploadRow, uploaderName: string | null): Upload {
+export function toUpload(deps: AppDeps, row: UploadRow, uploaderName: string | null): Upload {
   return {
     id: row.id,
     tusId: row.tusId,
@@ -160,16 +175,17 @@ export function toUpload(row: UploadRow, uploaderName: string | null): Upload {
     uploadedBy: row.userId === null ? null : { userId: row.userId, name: uploaderName ?? "" },
     createdAt: row.createdAt.toISOString(),
     completedAt: row.completedAt?.toISOString() ?? null,
+    expiresAt: row.state === "uploading" ? expiresAt(deps, row).toISOString() : null,
   };
 }
 
 export async function getUploadPage(deps: AppDeps, principal: Principal, query: UploadQuery): Promise<UploadPage> {
-  const states = query.state === "all" ? (["uploading", "complete", "aborted"] as const) : [query.state];
+  const states = query.state === "all" ? UPLOAD_STATES : [query.state];
   const rows = await listUploads(deps.db, principal.teamId, states, decodeCursor(query.cursor), query.limit + 1);
   const page = rows.slice(0, query.limit);
   const last = page.at(-1);
   return {
-    items: page.map((r) => toUpload(r.upload, r.uploaderName)),
+    items: page.map((r) => toUpload(deps, r.upload, r.uploaderName)),
     nextCursor: rows.length > query.limit && last ? encodeCursor(last.upload.id) : null,
     limits: await uploadLimits(deps, principal.teamId),
   };

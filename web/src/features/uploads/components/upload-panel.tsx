@@ -49,6 +49,7 @@ export function UploadPanel({ limits, onUploaded }: UploadPanelProps) {
     "CSV, TSV or space-separated edge lists, gzip welcome",
     maxBytes ? `up to ${formatBytes(maxBytes)} each` : null,
     limits?.quotaBytes ? `team storage ${formatBytes(limits.usedBytes)} of ${formatBytes(limits.quotaBytes)} used` : null,
+    limits ? `unfinished uploads are removed after ${limits.unfinishedExpiryHours} h` : null,
   ]
     .filter(Boolean)
     .join(" · ");

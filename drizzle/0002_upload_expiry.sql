@@ -1,0 +1,1 @@
+ALTER TABLE `uploads` MODIFY COLUMN `state` enum('uploading','complete','aborted','expired') NOT NULL DEFAULT 'uploading';
