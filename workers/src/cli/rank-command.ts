@@ -89,6 +89,8 @@ export async function rankCommand(file: string, o: RankCommandOptions): Promise<
       },
       {
         limits: { threads },
+        // Every run here weighs an edge by its merged multiplicity, so repeated sources serve as well as weights.
+        duplicateLayout: "repeats",
         onProgress: (p) => parseBar.update(p.bytesRead, p.totalBytes, p.phase === "parse" ? `${p.rows} lines` : "building"),
       },
     );
@@ -146,7 +148,7 @@ export async function rankCommand(file: string, o: RankCommandOptions): Promise<
   return {
     file,
     nodes: graph.n,
-    edges: graph.m,
+    edges: graph.mergedEdges ?? graph.m,
     iterations: result.iterations,
     residual: result.residual,
     errorBound: result.errorBound,

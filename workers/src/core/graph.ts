@@ -1,6 +1,8 @@
 // The in-memory shape of a prepared graph: what ingest produces and what the iteration consumes.
 // Dense node ids are 0..n-1 and are ours; original ids live in `ids` for output.
 
+import type { SharedHeap } from "./shared-heap";
+
 /** Node-sum block: global sums (dangling mass, residual) are added per block and blocks combined in order. */
 export const BLOCK_NODES = 4096;
 
@@ -16,6 +18,10 @@ export type NodeIds =
  * In-edges of target v are sources[inOffsets[v] .. inOffsets[v+1]) (CSR by target), each list sorted ascending.
  * outWeight[u] = W_u = sum of weights of u's out-edges (edge count when unweighted); 0 means u is dangling.
  * When `weights` is null every edge weighs 1.
+ * `mergedEdges` is set when duplicate edges were merged by keeping each copy as a repeated source (cheaper than a
+ * weight per edge when duplicates are few): a source listed k times in an in-list is one edge weighing k, and
+ * mergedEdges counts it once (m counts it k times). Unweighted runs on such a graph count each edge once.
+ * `heap` is set when inOffsets, sources, weights and outWeight all live in it (runs then borrow its free space).
  */
 export interface Graph {
   n: number;
@@ -25,6 +31,8 @@ export interface Graph {
   weights: Float64Array | null;
   outWeight: Float64Array;
   ids: NodeIds;
+  mergedEdges?: number;
+  heap?: SharedHeap;
 }
 
 /**

@@ -1,6 +1,8 @@
 // A pool of worker threads that run shard steps; one pool can serve many runs in turn.
 import { Piscina } from "piscina";
+import { pathToFileURL } from "node:url";
 import type { ShardDone, ShardTask } from "../tasks/rank-shard-task";
+import { bundledWorker } from "../tasks/ts-worker";
 
 // Workers are .ts under tsx/Vitest and .js once built: load the task file with the same extension as this module.
 const EXT = import.meta.url.endsWith(".ts") ? ".ts" : ".js";
@@ -16,12 +18,15 @@ export class RankPool {
       throw new RangeError(`threads must be a positive integer. Value: ${opts.threads}`);
     }
     this.threads = opts.threads;
+    // From TypeScript, workers start from a cached bundle of the task (no tsx loader in each thread) when esbuild is
+    // there, else through tsx.
+    const bundle = EXT === ".ts" ? bundledWorker(new URL(TASK_FILE)) : null;
     this.#pool = new Piscina<ShardTask, ShardDone>({
-      filename: TASK_FILE,
+      filename: bundle ? pathToFileURL(bundle).href : TASK_FILE,
       minThreads: opts.threads,
       maxThreads: opts.threads,
       idleTimeout: 60_000,
-      execArgv: EXT === ".ts" ? ["--import", "tsx"] : [],
+      execArgv: EXT === ".ts" && !bundle ? ["--import", "tsx"] : [],
     });
   }
 

@@ -5,7 +5,7 @@ import { combineBlocks } from "../core/pull-step-csr";
 import { planShards } from "../core/shard-plan";
 import { stepScalars } from "../core/teleport";
 import { RankPool } from "./rank-pool";
-import { prepareRunState } from "./run-state";
+import { prepareRunState, type RunState } from "./run-state";
 import { DEFAULT_RETRY, runShard, type FaultPlan, type RetryPolicy, type ShardState } from "./shard-attempts";
 
 export { RankPool } from "./rank-pool";
@@ -115,6 +115,14 @@ async function iterate(graph: Graph, params: RankParams, hooks: RankHooks, pool:
     seeds,
     start: hooks.resumeFrom?.x ?? null,
   });
+  try {
+    return await steps(s, params, hooks, pool, t0);
+  } finally {
+    s.release();
+  }
+}
+
+async function steps(s: RunState, params: RankParams, hooks: RankHooks, pool: RankPool, t0: number): Promise<RankResult> {
   const runId = `${process.pid}-${++runCounter}`;
   const plan = planShards(s.views.inOffsets, s.n, params.shards ?? pool.threads, s.blockNodes);
   const shards: ShardState[] = plan.map((r) => ({ ...r, state: "queued", attempts: 0 }));

@@ -4,6 +4,9 @@ import { BLOCK_NODES } from "../core/graph";
 import { BLOCK_SLOTS, combineBlocks } from "../core/pull-step-csr";
 import { checkGraph, contributions } from "../core/pull-step";
 import { outDegree, teleportVector } from "../core/teleport";
+import { sharedF64, sharedU32 } from "../graph-store/shared";
+import { graphBytes, runBytes, SharedHeap, type HeapLoan } from "../core/shared-heap";
+import { stepModule } from "../tasks/wasm-step";
 import { sliceOf, type RunBuffers, type RunViews } from "../tasks/rank-shard-task";
 
 export interface RunState {
@@ -19,6 +22,8 @@ export interface RunState {
   /** D_k and Σx_k of the current iterate, from block sums. */
   danglingMass: number;
   mass: number;
+  /** Gives borrowed heap space back; the views must not be used after. */
+  release(): void;
 }
 
 export interface StateInputs {
@@ -28,62 +33,71 @@ export interface StateInputs {
   start: Float64Array | null;
 }
 
-const WASM_PAGE = 65_536;
-const WASM_MAX_PAGES = 65_536;
-/** The first page stays unused so that no array sits at byte offset 0 (the kernel's "absent" marker). */
-const WASM_BASE = WASM_PAGE;
-
-/** Hands out typed arrays in shared memory: separate SharedArrayBuffers, or one shared WebAssembly.Memory. */
+/** Hands out typed arrays in shared memory: separate SharedArrayBuffers, or one shared heap the wasm kernel reads. */
 class Arena {
-  readonly memory: WebAssembly.Memory | null;
-  #at = WASM_BASE;
-
-  constructor(wasmBytes: number | null) {
-    this.memory = null;
-    if (wasmBytes !== null) {
-      const pages = Math.ceil((WASM_BASE + wasmBytes) / WASM_PAGE);
-      this.memory = new WebAssembly.Memory({ initial: pages, maximum: pages, shared: true });
-    }
-  }
-
-  #take(bytes: number): [SharedArrayBuffer, number] {
-    if (this.memory === null) return [new SharedArrayBuffer(Math.max(8, bytes)), 0];
-    const at = this.#at;
-    this.#at += Math.ceil(bytes / 8) * 8;
-    return [this.memory.buffer as unknown as SharedArrayBuffer, at];
-  }
+  constructor(readonly heap: SharedHeap | null) {}
 
   f64(length: number): Float64Array {
-    const [buf, at] = this.#take(length * 8);
-    return new Float64Array(buf, at, length);
+    return this.heap ? this.heap.f64(length) : sharedF64(length);
   }
 
   u32(length: number): Uint32Array {
-    const [buf, at] = this.#take(length * 4);
-    return new Uint32Array(buf, at, length);
+    return this.heap ? this.heap.u32(length) : sharedU32(length);
   }
 
-  /** `a` itself when it already lives in shared memory this arena can use, else a copy. */
+  /** `a` itself when it already lives where this arena's arrays live, else a copy. */
   shareU32(a: Uint32Array): Uint32Array {
-    if (this.memory === null && a.buffer instanceof SharedArrayBuffer) return a;
+    if (this.#holds(a)) return a;
     const s = this.u32(a.length);
     s.set(a);
     return s;
   }
 
   shareF64(a: Float64Array): Float64Array {
-    if (this.memory === null && a.buffer instanceof SharedArrayBuffer) return a;
+    if (this.#holds(a)) return a;
     const s = this.f64(a.length);
     s.set(a);
     return s;
   }
+
+  #holds(a: Float64Array | Uint32Array): boolean {
+    return this.heap ? a.buffer === this.heap.buffer : a.buffer instanceof SharedArrayBuffer;
+  }
 }
 
-/** Bytes the run needs in one linear memory, or null when it does not fit 32-bit addressing. */
-function wasmBytes(n: number, m: number, weighted: boolean, seeded: boolean, blocks: number): number | null {
-  const f64s = n * (seeded ? 6 : 5) + (weighted ? m : 0) + blocks * BLOCK_SLOTS;
-  const bytes = f64s * 8 + (n + 1 + m) * 4 + 16 * 8;
-  return WASM_BASE + bytes <= WASM_MAX_PAGES * WASM_PAGE ? bytes : null;
+/**
+ * Where the run's arrays go: the graph's own heap when it has one and no other run holds it (no copy), else a new heap
+ * sized for graph and run (the graph is copied in), else (js kernel, or too big for 32-bit addressing) plain buffers.
+ */
+function runMemory(
+  graph: Graph,
+  kernel: StateInputs["kernel"],
+  useWeights: boolean,
+  distinct: boolean,
+): { heap: SharedHeap | null; loan: HeapLoan | null } {
+  if (kernel === "js") return { heap: null, loan: null };
+  const n = graph.n;
+  const loan = !distinct && graph.heap && graph.heap.free >= runBytes(n) ? graph.heap.lend() : null;
+  if (loan) return { heap: loan.heap, loan };
+  const m = distinct ? (graph.mergedEdges as number) : graph.m;
+  const heap = SharedHeap.create(graphBytes(n, m, useWeights) + runBytes(n));
+  if (kernel === "wasm" && heap === null) throw new RangeError(`graph is too large for the wasm kernel. Value: n = ${n}, m = ${graph.m}`);
+  return { heap, loan: null };
+}
+
+/** In-lists with each repeated source listed once. */
+function distinctArcs(graph: Graph, arena: Arena): { inOffsets: Uint32Array; sources: Uint32Array } {
+  const { n, inOffsets: from, sources: src } = graph;
+  const inOffsets = arena.u32(n + 1);
+  const sources = arena.u32(graph.mergedEdges as number);
+  let wr = 0;
+  for (let v = 0; v < n; v++) {
+    inOffsets[v] = wr;
+    for (let e = from[v], end = from[v + 1]; e < end; e++) if (e === from[v] || src[e] !== src[e - 1]) sources[wr++] = src[e];
+  }
+  if (wr !== sources.length) throw new RangeError(`graph.mergedEdges must be the distinct edge count ${wr}. Value: ${sources.length}`);
+  inOffsets[n] = wr;
+  return { inOffsets, sources };
 }
 
 /**
@@ -96,14 +110,16 @@ export function prepareRunState(graph: Graph, inp: StateInputs): RunState {
   const blockNodes = BLOCK_NODES;
   const blocks = Math.ceil(n / blockNodes);
   const useWeights = inp.weighted && graph.weights !== null;
-  const need = inp.kernel === "js" ? null : wasmBytes(n, graph.m, useWeights, inp.seeds !== null, blocks);
-  if (inp.kernel === "wasm" && need === null) throw new RangeError(`graph is too large for the wasm kernel. Value: n = ${n}, m = ${graph.m}`);
-  const arena = new Arena(need);
-  const inOffsets = arena.shareU32(graph.inOffsets);
-  const sources = arena.shareU32(graph.sources);
+  // Unweighted run on a graph keeping merged duplicates as repeated sources: each edge once, from a copy.
+  const distinct = !inp.weighted && graph.mergedEdges !== undefined;
+  const { heap, loan } = runMemory(graph, inp.kernel, useWeights, distinct);
+  const arena = new Arena(heap);
+  const { inOffsets, sources } = distinct
+    ? distinctArcs(graph, arena)
+    : { inOffsets: arena.shareU32(graph.inOffsets), sources: arena.shareU32(graph.sources) };
   const weights = useWeights && graph.weights ? arena.shareF64(graph.weights) : null;
   // Unweighted run on a weighted graph: W_u is the out-edge count, not the stored out-weight.
-  const outWeight = graph.weights !== null && !useWeights ? outDegree(sources, arena.f64(n)) : arena.shareF64(graph.outWeight);
+  const outWeight = (graph.weights !== null && !useWeights) || distinct ? outDegree(sources, arena.f64(n)) : arena.shareF64(graph.outWeight);
   const tel = inp.seeds ? arena.shareF64(teleportVector(n, inp.seeds)) : null;
   const x: [Float64Array, Float64Array] = [arena.f64(n), arena.f64(n)];
   const c: [Float64Array, Float64Array] = [arena.f64(n), arena.f64(n)];
@@ -120,7 +136,8 @@ export function prepareRunState(graph: Graph, inp: StateInputs): RunState {
   const sums = combineBlocks(blockSums, blocks);
   const views: RunViews = { inOffsets, sources, weights, outWeight, tel, x, c, blockSums };
   const buffers: RunBuffers = {
-    memory: arena.memory,
+    memory: heap ? heap.memory : null,
+    module: heap ? stepModule() : null,
     inOffsets: sliceOf(inOffsets),
     sources: sliceOf(sources),
     weights: weights && sliceOf(weights),
@@ -130,6 +147,18 @@ export function prepareRunState(graph: Graph, inp: StateInputs): RunState {
     c: [sliceOf(c[0]), sliceOf(c[1])],
     blockSums: sliceOf(blockSums),
   };
-  const kernel = arena.memory ? "wasm" : "js";
-  return { n, blocks, blockNodes, kernel, buffers, views, seeded: tel !== null, cur: 0, danglingMass: sums.dangling, mass: sums.sum };
+  const kernel = heap ? "wasm" : "js";
+  return {
+    n,
+    blocks,
+    blockNodes,
+    kernel,
+    buffers,
+    views,
+    seeded: tel !== null,
+    cur: 0,
+    danglingMass: sums.dangling,
+    mass: sums.sum,
+    release: () => loan?.release(),
+  };
 }

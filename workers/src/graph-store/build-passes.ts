@@ -150,7 +150,8 @@ export interface PassD {
 
 const INSERTION_SORT_MAX = 48;
 
-export function scatterByTarget(t: PassD): void {
+/** Returns the number of arcs in the slice's lists equal to the arc before them (duplicates). */
+export function scatterByTarget(t: PassD): number {
   const { cLo, cHi, dropSelf, both, fill, sources } = t;
   for (const seg of t.segments) {
     const { src, dst, map, fmap } = seg;
@@ -181,12 +182,15 @@ export function scatterByTarget(t: PassD): void {
     }
   }
   const { perm, inOffsets } = t;
+  let dups = 0;
   for (let c = cLo; c < cHi; c++) {
     const v = perm[c];
     const a = inOffsets[v];
     const b = inOffsets[v + 1];
-    if (b - a > INSERTION_SORT_MAX) sources.subarray(a, b).sort();
-    else {
+    if (b - a > INSERTION_SORT_MAX) {
+      sources.subarray(a, b).sort();
+      for (let i = a + 1; i < b; i++) if (sources[i] === sources[i - 1]) dups++;
+    } else {
       for (let i = a + 1; i < b; i++) {
         const key = sources[i];
         let j = i - 1;
@@ -195,9 +199,11 @@ export function scatterByTarget(t: PassD): void {
           j--;
         }
         sources[j + 1] = key;
+        if (j >= a && sources[j] === key) dups++;
       }
     }
   }
+  return dups;
 }
 
 /** Counting pass of the direct numbering: lines per stored value as source, as target, and as self-loop. */

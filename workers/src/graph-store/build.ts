@@ -19,7 +19,8 @@ import {
   type PassD,
   type PassSegment,
 } from "./build-passes";
-import { sharedF64, sharedU32 } from "./shared";
+import { graphBytes, runBytes, SharedHeap } from "../core/shared-heap";
+import { HEAP_MIN_BYTES, sharedF64, sharedU32 } from "./shared";
 
 export interface BuildPolicy {
   directed: boolean;
@@ -27,6 +28,14 @@ export interface BuildPolicy {
   duplicates: "merge" | "keep";
   /** Renumber hubs first (default) or keep original-id order. */
   renumber: boolean;
+  /**
+   * How merged duplicates of an unweighted file are stored: as a weight per edge (default), or as repeated sources
+   * when at most half the arcs are duplicates (4 bytes per extra arc instead of 8 per edge; same transition matrix
+   * for runs that use weights, see Graph.mergedEdges).
+   */
+  duplicateLayout?: "weights" | "repeats";
+  /** Smallest graph (bytes of its arrays) built onto a shared heap; smaller ones use plain shared buffers. */
+  heapMinBytes?: number;
 }
 
 export interface BuildReport {
@@ -64,10 +73,7 @@ export function runPass(t: PassTask): number {
     scatterBySource(t.task);
     return 0;
   }
-  if (t.kind === "d") {
-    scatterByTarget(t.task);
-    return 0;
-  }
+  if (t.kind === "d") return scatterByTarget(t.task);
   return fillInLists(t.task);
 }
 
@@ -86,10 +92,14 @@ export async function buildGraph(
   const arcs = counts.arcs;
   if (arcs >= 2 ** 32) throw new RangeError(`too many edges for 32-bit offsets: ${arcs}`);
   const slices = Math.max(1, Math.min(runner.slices, n));
+  const bytes = graphBytes(n, arcs, weighted || merge);
+  const heap = bytes >= (policy.heapMinBytes ?? HEAP_MIN_BYTES) ? SharedHeap.create(bytes + runBytes(n)) : null;
+  const finalU32 = (length: number) => (heap ? heap.u32(length) : sharedU32(length));
+  const finalF64 = (length: number) => (heap ? heap.f64(length) : sharedF64(length));
 
   const perm = policy.renumber ? hubsFirst(counts.out) : identity(n);
   const outStart = sharedU32(n + 1);
-  const inOffsets = sharedU32(n + 1);
+  const inOffsets = finalU32(n + 1);
   const outByC = new Float64Array(n + 1);
   for (let c = 0; c < n; c++) {
     outStart[perm[c] + 1] = counts.out[c];
@@ -123,8 +133,8 @@ export async function buildGraph(
   });
 
   if (!weighted) {
-    // Unweighted: arcs straight into their in-lists, lists sorted, duplicates folded in one sweep; W_u = arc count.
-    const sources = sharedU32(arcs);
+    // Unweighted: arcs straight into their in-lists, lists sorted, duplicates counted; W_u = arc count.
+    const sources = finalU32(arcs);
     const fill = sharedU32(n);
     fill.set(inOffsets.subarray(0, n));
     const permShared = sharedU32(n);
@@ -132,25 +142,25 @@ export async function buildGraph(
     const inByC = new Float64Array(n + 1);
     for (let c = 0; c < n; c++) inByC[c + 1] = inByC[c] + counts.in[c];
     const cuts = balancedCuts((c) => inByC[c], n, slices);
-    await runner.run(
+    const dupsBySlice = await runner.run(
       cuts.slice(0, -1).map((cLo, k) => ({
         kind: "d" as const,
         task: { segments: sliceSegments(cLo, cuts[k + 1]), cLo, cHi: cuts[k + 1], dropSelf, both, perm: permShared, inOffsets, fill, sources },
       })),
     );
-    const outWeight = sharedF64(n);
+    const dups = dupsBySlice.reduce((a, b) => a + b, 0);
+    const outWeight = finalF64(n);
     for (let c = 0; c < n; c++) outWeight[perm[c]] = counts.out[c];
-    const r = merge ? mergeUnitArcs(n, inOffsets, sources) : { m: arcs, weights: null };
-    const graph: Graph = {
-      n,
-      m: r.m,
-      inOffsets,
-      sources: r.m === arcs ? sources : sources.subarray(0, r.m),
-      weights: r.weights,
-      outWeight,
-      ids: ids(),
-    };
-    return { graph, report: reportOf(arcs - r.m) };
+    const base = { n, inOffsets, outWeight, ids: ids(), ...(heap ? { heap } : {}) };
+    if (!merge || dups === 0) {
+      return { graph: { ...base, m: arcs, sources, weights: null }, report: reportOf(0) };
+    }
+    if (policy.duplicateLayout === "repeats" && 2 * dups <= arcs) {
+      return { graph: { ...base, m: arcs, sources, weights: null, mergedEdges: arcs - dups }, report: reportOf(dups) };
+    }
+    const weights = finalF64(arcs - dups);
+    const m = mergeUnitArcs(n, inOffsets, sources, weights);
+    return { graph: { ...base, m, sources: sources.subarray(0, m), weights }, report: reportOf(arcs - m) };
   }
 
   // Weighted: pass A, sliced by canonical source ranges of about equal arc counts, then pass B.
@@ -180,9 +190,9 @@ export async function buildGraph(
 
   // Pass B, sliced by target ranges of about equal in-arc counts (and source ranges for the out-weights); duplicates
   // merge as they are placed.
-  const sources = sharedU32(arcs);
-  const weights = sharedF64(arcs);
-  const outWeight = sharedF64(n);
+  const sources = finalU32(arcs);
+  const weights = finalF64(arcs);
+  const outWeight = finalF64(n);
   const fillLast = sharedU32(2 * n);
   for (let v = 0; v < n; v++) {
     fillLast[2 * v] = inOffsets[v];
@@ -220,6 +230,7 @@ export async function buildGraph(
     weights: m === arcs ? weights : weights.subarray(0, m),
     outWeight,
     ids: ids(),
+    ...(heap ? { heap } : {}),
   };
   return { graph, report: reportOf(merged) };
 }
@@ -278,15 +289,9 @@ function compact(n: number, inOffsets: Uint32Array, fillLast: Uint32Array, sourc
 
 /**
  * Fold each run of equal sources in an in-list into one arc weighing the run's length (unit weights summed: the
- * transition probabilities do not change). In place; rewrites inOffsets. Weights stay null without duplicates.
+ * transition probabilities do not change). In place; rewrites inOffsets; returns the edge count.
  */
-function mergeUnitArcs(n: number, inOffsets: Uint32Array, sources: Uint32Array): { m: number; weights: Float64Array | null } {
-  let dups = 0;
-  for (let v = 0; v < n; v++) {
-    for (let e = inOffsets[v] + 1, end = inOffsets[v + 1]; e < end; e++) if (sources[e] === sources[e - 1]) dups++;
-  }
-  if (dups === 0) return { m: inOffsets[n], weights: null };
-  const weights = sharedF64(inOffsets[n] - dups);
+function mergeUnitArcs(n: number, inOffsets: Uint32Array, sources: Uint32Array, weights: Float64Array): number {
   let wr = 0;
   for (let v = 0; v < n; v++) {
     const start = inOffsets[v];
@@ -305,7 +310,7 @@ function mergeUnitArcs(n: number, inOffsets: Uint32Array, sources: Uint32Array):
     }
   }
   inOffsets[n] = wr;
-  return { m: wr, weights };
+  return wr;
 }
 
 /** perm[c] = final id: out-arc count descending, then canonical id ascending (stable counting sort). */

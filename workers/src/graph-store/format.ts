@@ -36,6 +36,8 @@ export interface StoreMeta {
   createdAt: string;
   n: number;
   m: number;
+  /** Present when merged duplicates are stored as repeated sources: the edge count after merging (see Graph). */
+  mergedEdges?: number;
   idKind: "integer" | "string";
   weighted: boolean;
   /** sha256 of the uploaded edge-list file. */

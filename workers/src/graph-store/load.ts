@@ -8,11 +8,14 @@ import { open, readFile } from "node:fs/promises";
 import { join } from "node:path";
 import type { Graph, NodeIds } from "../core/graph";
 import { GraphStoreError, STORE_FORMAT, STORE_VERSION, type StoredFile, type StoredPiece, type StoreMeta } from "./format";
-import { sharedF64, sharedU32 } from "./shared";
+import { graphBytes, runBytes, SharedHeap } from "../core/shared-heap";
+import { HEAP_MIN_BYTES, sharedF64, sharedU32 } from "./shared";
 
 export interface LoadOptions {
   /** Check each file's sha256 (default true). */
   verify?: boolean;
+  /** Smallest graph (bytes of its arrays) loaded onto a shared heap (default 8 MiB). */
+  heapMinBytes?: number;
 }
 
 export interface LoadedPiece {
@@ -30,6 +33,7 @@ export class GraphStore {
     readonly dir: string,
     readonly meta: StoreMeta,
     private readonly verify: boolean,
+    private readonly heapMinBytes: number,
   ) {}
 
   static async open(dir: string, options: LoadOptions = {}): Promise<GraphStore> {
@@ -46,7 +50,7 @@ export class GraphStore {
       throw new GraphStoreError("corrupt", dir, "meta.json is not valid JSON");
     }
     checkMeta(dir, meta);
-    return new GraphStore(dir, meta, options.verify ?? true);
+    return new GraphStore(dir, meta, options.verify ?? true, options.heapMinBytes ?? HEAP_MIN_BYTES);
   }
 
   async loadIds(): Promise<NodeIds> {
@@ -81,12 +85,17 @@ export class GraphStore {
     return { index, start: p.start, end: p.end, offsets, sources, weights };
   }
 
-  /** The whole graph; inOffsets, sources, weights and outWeight on SharedArrayBuffers. */
+  /**
+   * The whole graph; inOffsets, sources, weights and outWeight in one shared heap (runs borrow its free space), or
+   * on SharedArrayBuffers when small or beyond 32-bit addressing.
+   */
   async loadGraph(): Promise<Graph> {
-    const { n, m, weighted } = this.meta;
-    const inOffsets = sharedU32(n + 1);
-    const sources = sharedU32(m);
-    const weights = weighted ? sharedF64(m) : null;
+    const { n, m, weighted, mergedEdges } = this.meta;
+    const bytes = graphBytes(n, m, weighted);
+    const heap = bytes >= this.heapMinBytes ? SharedHeap.create(bytes + runBytes(n)) : null;
+    const inOffsets = heap ? heap.u32(n + 1) : sharedU32(n + 1);
+    const sources = heap ? heap.u32(m) : sharedU32(m);
+    const weights = weighted ? (heap ? heap.f64(m) : sharedF64(m)) : null;
     const local = new Uint32Array(Math.max(...this.meta.pieces.map((p) => p.end - p.start + 1), 1));
     let base = 0;
     for (const p of this.meta.pieces) {
@@ -96,9 +105,12 @@ export class GraphStore {
       for (let i = 0; i < len; i++) inOffsets[p.start + i] = base + offsets[i];
       base += p.edges;
     }
-    const outWeight = await this.loadOutWeight();
+    const outWeight = await this.loadOutWeight(heap ? heap.f64(n) : sharedF64(n));
     for (let u = 0; u < n; u++) if (!(outWeight[u] >= 0)) throw this.corrupt(`out-weight.f64 has an invalid value at node ${u}`);
-    return { n, m, inOffsets, sources, weights, outWeight, ids: await this.loadIds() };
+    const graph: Graph = { n, m, inOffsets, sources, weights, outWeight, ids: await this.loadIds() };
+    if (mergedEdges !== undefined) graph.mergedEdges = mergedEdges;
+    if (heap) graph.heap = heap;
+    return graph;
   }
 
   private piece(index: number): StoredPiece {
@@ -167,6 +179,8 @@ function checkMeta(dir: string, meta: StoreMeta): void {
   const count = (v: unknown) => typeof v === "number" && Number.isSafeInteger(v) && v >= 0;
   if (!count(meta.n) || !count(meta.m)) throw bad("n and m must be non-negative integers");
   if (meta.m >= 2 ** 32 || meta.n >= 2 ** 32 - 1) throw bad("n or m exceeds 32-bit indexes");
+  if (meta.mergedEdges !== undefined && !(count(meta.mergedEdges) && meta.mergedEdges <= meta.m && !meta.weighted))
+    throw bad("mergedEdges must be an integer ≤ m on an unweighted graph");
   if (meta.idKind !== "integer" && meta.idKind !== "string") throw bad("idKind must be integer or string");
   if (!meta.files?.ids || !meta.files.outWeight || (meta.idKind === "string" && !meta.files.idOffsets)) throw bad("files are incomplete");
   if (!Array.isArray(meta.pieces)) throw bad("pieces must be a list");

@@ -52,6 +52,7 @@ export async function writeGraphStore(dir: string, graph: Graph, input: WriteSto
       createdAt: new Date().toISOString(),
       n,
       m: graph.m,
+      ...(graph.mergedEdges !== undefined ? { mergedEdges: graph.mergedEdges } : {}),
       idKind: graph.ids.kind,
       weighted: graph.weights !== null,
       fingerprint: input.fingerprint ?? null,

@@ -29,6 +29,10 @@ export interface IngestRun {
   limits?: Partial<IngestLimits>;
   /** Renumber nodes hubs first (default true). */
   renumber?: boolean;
+  /** How merged duplicates of an unweighted file are stored (see BuildPolicy). */
+  duplicateLayout?: "weights" | "repeats";
+  /** Smallest graph put on a shared heap (see BuildPolicy). */
+  heapMinBytes?: number;
   onProgress?: (p: IngestProgress) => void;
   /** Number ids through hash tables even when a direct table would do (tests compare both paths). */
   hashIds?: boolean;
@@ -153,6 +157,8 @@ export async function ingestEdgeFile(path: string, options: Partial<GraphOptions
       selfLoops: opts.selfLoops,
       duplicates: opts.duplicates,
       renumber: run.renumber ?? true,
+      duplicateLayout: run.duplicateLayout,
+      heapMinBytes: run.heapMinBytes,
       },
       runner,
     );
@@ -173,7 +179,7 @@ export async function ingestEdgeFile(path: string, options: Partial<GraphOptions
       headerLines: counts.headerLines,
       badLines: counts.badLines,
       nodes: graph.n,
-      edges: graph.m,
+      edges: graph.mergedEdges ?? graph.m,
       selfLoops: counts.selfLoops,
       selfLoopsDropped: report.selfLoopsDropped,
       duplicates: report.duplicatesMerged,

@@ -7,7 +7,7 @@ import { runPass, type PassTask } from "../graph-store/build";
 import { parseChunk, type ChunkAck, type LaneReply, type LaneRequest } from "./lane-protocol";
 import { LineParser, type IdMode, type ParsedPart, type ParserConfig } from "./line-parser";
 import type { Chunk } from "./source";
-import { startTsWorker } from "./ts-worker";
+import { startTsWorker } from "../tasks/ts-worker";
 
 export type { ChunkAck } from "./lane-protocol";
 

@@ -66,12 +66,22 @@ export function degreeStats(g: Graph): {
   const inDeg = new Uint32Array(g.n);
   const outDeg = new Uint32Array(g.n);
   let maxIn = 0;
+  // A repeated source in an in-list (Graph.mergedEdges) is one edge: count it once.
+  const repeats = g.mergedEdges !== undefined;
   for (let v = 0; v < g.n; v++) {
-    const d = g.inOffsets[v + 1] - g.inOffsets[v];
+    const lo = g.inOffsets[v];
+    const hi = g.inOffsets[v + 1];
+    let d = hi - lo;
+    if (repeats) {
+      for (let e = lo; e < hi; e++) {
+        if (e > lo && g.sources[e] === g.sources[e - 1]) d--;
+        else outDeg[g.sources[e]]++;
+      }
+    }
     inDeg[v] = d;
     if (d > maxIn) maxIn = d;
   }
-  for (let e = 0; e < g.m; e++) outDeg[g.sources[e]]++;
+  if (!repeats) for (let e = 0; e < g.m; e++) outDeg[g.sources[e]]++;
   let maxOut = 0;
   let dangling = 0;
   for (let u = 0; u < g.n; u++) {

@@ -15,6 +15,8 @@ export interface SharedSlice {
 export interface RunBuffers {
   /** Set when every slice lives in this memory and the wasm kernel runs the steps. */
   memory: WebAssembly.Memory | null;
+  /** The compiled wasm kernel (with memory): worker threads instantiate it instead of reading and compiling the file. */
+  module: WebAssembly.Module | null;
   inOffsets: SharedSlice;
   sources: SharedSlice;
   weights: SharedSlice | null;
@@ -89,7 +91,7 @@ const CACHED_RUNS = 4;
 export function cachedRun(runId: string, b: RunBuffers): CachedRun {
   let v = cache.get(runId);
   if (v === undefined) {
-    v = { views: runViews(b), wasm: b.memory && instantiateStep(b.memory) };
+    v = { views: runViews(b), wasm: b.memory && instantiateStep(b.memory, b.module ?? undefined) };
     cache.set(runId, v);
     if (cache.size > CACHED_RUNS) cache.delete(cache.keys().next().value as string);
   }

@@ -22,7 +22,7 @@ const ready = new Map<string, string>();
 
 export function startTsWorker(url: URL, options: WorkerOptions = {}): Worker {
   if (!url.pathname.endsWith(".ts")) return new Worker(url, options);
-  const bundle = bundled(url);
+  const bundle = bundledWorker(url);
   if (bundle) return new Worker(pathToFileURL(bundle), { execArgv: [], ...options });
   const tsxApi = pathToFileURL(join(tsxDir(), "dist", "esm", "api", "index.mjs")).href;
   const entry =
@@ -36,8 +36,11 @@ function tsxDir(): string {
   return dirname(createRequire(import.meta.url).resolve("tsx/package.json"));
 }
 
-/** Path of an up-to-date bundle of the module, or null when esbuild is not available. */
-function bundled(url: URL): string | null {
+/**
+ * Path of an up-to-date bundle of a worker's TypeScript module, or null when esbuild is not available. The bundle
+ * lives elsewhere: the module must not resolve files relative to its own import.meta.url.
+ */
+export function bundledWorker(url: URL): string | null {
   const source = fileURLToPath(url);
   const known = ready.get(source);
   if (known) return known;

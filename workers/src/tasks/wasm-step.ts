@@ -12,9 +12,14 @@ export const WASM_FILE = new URL("../../assembly/pull-step.wasm", import.meta.ur
 
 let compiled: WebAssembly.Module | null = null;
 
-export function instantiateStep(memory: WebAssembly.Memory): WasmPullStep {
+/** The kernel's compiled module, made once per thread; worker threads get it from the task (see RunBuffers). */
+export function stepModule(): WebAssembly.Module {
   compiled ??= new WebAssembly.Module(readFileSync(WASM_FILE));
-  const instance = new WebAssembly.Instance(compiled, { env: { memory } });
+  return compiled;
+}
+
+export function instantiateStep(memory: WebAssembly.Memory, module: WebAssembly.Module = stepModule()): WasmPullStep {
+  const instance = new WebAssembly.Instance(module, { env: { memory } });
   return instance.exports.pullStep as WasmPullStep;
 }
 
