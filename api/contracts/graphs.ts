@@ -1,5 +1,5 @@
 import { z } from "zod";
-import { IdParamSchema, IdSchema, TimestampSchema } from "./common";
+import { IdParamSchema, IdSchema, plainNameSchema, TimestampSchema } from "./common";
 
 export const GRAPH_STATUSES = ["queued", "ingesting", "ready", "rejected"] as const;
 export const GraphStatusSchema = z.enum(GRAPH_STATUSES);
@@ -24,7 +24,7 @@ export const GraphOptionsSchema = z.strictObject({
 export type GraphOptions = z.infer<typeof GraphOptionsSchema>;
 export type GraphOptionsInput = z.input<typeof GraphOptionsSchema>;
 
-export const GraphNameSchema = z.string().trim().min(1, "Name the graph.").max(200);
+export const GraphNameSchema = plainNameSchema("graph name", 200, "Name the graph.");
 
 /** `POST /api/graphs` → 202 `{ id }`: the ingest is queued and runs on the worker pool. */
 export const CreateGraphSchema = z.strictObject({

@@ -32,8 +32,17 @@ export function errorHandler(logger: Logger): ErrorRequestHandler {
     if (error instanceof AppError) {
       appError = error;
     } else if (error instanceof ZodError) {
+      const issues = error.issues.map((issue) => ({
+        code: issue.code,
+        path: issue.path,
+        message: issue.message,
+        ...(issue.code === "custom" && issue.params ? { params: issue.params } : {}),
+      }));
+      // One problem: say it in the message itself, so a person sees which field and why without reading details.
+      const only = issues.length === 1 ? issues[0] : null;
       appError = new AppError(ERRORS.validationFailed, {
-        details: { issues: error.issues.map(({ code, path, message }) => ({ code, path, message })) },
+        message: only ? `${ERRORS.validationFailed.message} ${only.path.join(".") || "body"}: ${only.message}` : undefined,
+        details: { issues },
       });
     } else {
       appError = bodyParserError(error) ?? exposedClientError(error) ?? new AppError(ERRORS.internal, { cause: error });
