@@ -108,12 +108,15 @@ class RunnerProcess implements Runner {
   #beatRecord(): Beat {
     const job = this.#job;
     const mem = process.memoryUsage();
-    const busy = !job ? 0 : job.kind === "run" ? this.#ctx.pool.stats().busy : this.#ctx.pool.threads;
+    const { threads, busy: inFlight } = this.#ctx.pool.stats();
+    // The pool counts the shard tasks handed to it, queued ones included (a step hands over every shard at once);
+    // at most `threads` of them are at work.
+    const busy = !job ? 0 : job.kind === "run" ? Math.min(threads, inFlight) : threads;
     return {
       runnerId: this.id,
       host: hostname(),
       pid: process.pid,
-      threads: this.#ctx.pool.threads,
+      threads,
       busy,
       rssBytes: mem.rss,
       heapBytes: mem.heapUsed,

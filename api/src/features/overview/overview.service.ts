@@ -79,7 +79,8 @@ export async function getOverview(deps: AppDeps, principal: Principal): Promise<
         host: beat.host,
         pid: beat.pid,
         threads: beat.threads,
-        busy: beat.busy,
+        // Heartbeats of older runners counted queued shard tasks as busy threads.
+        busy: Math.min(beat.busy, beat.threads),
         rssBytes: beat.rssBytes,
         heapBytes: beat.heapBytes,
         currentRunId: beat.currentRunId !== null && ownRuns.has(beat.currentRunId) ? beat.currentRunId : null,
