@@ -1,38 +1,93 @@
 // Score files: CSV (streamed), Arrow IPC file and Parquet (ZSTD), one row per node in rank order, written atomically.
-import { tableToIPC } from "apache-arrow";
-import { Compression, Table as WasmTable, WriterPropertiesBuilder, writeParquet } from "parquet-wasm/node";
 import type { FileHandle } from "node:fs/promises";
 import type { NodeIds } from "../core/graph";
 import { writeAtomic } from "./atomic-file";
 import { rankOrder } from "./rank-order";
-import { scoreTable } from "./score-table";
 
 export type ScoreFormat = "csv" | "arrow" | "parquet";
 
-const CSV_CHUNK_ROWS = 16_384;
+/** Bytes buffered before a write; a row is at most a field of maxFieldBytes (quoted, doubled) plus 48. */
+const CSV_BUFFER_BYTES = 1 << 20;
 const utf8 = new TextDecoder("utf-8", { fatal: true });
+const QUOTE = 0x22;
+const COMMA = 0x2c;
+const NEWLINE = 0x0a;
 
-function csvField(s: string): string {
-  return /[",\r\n]/.test(s) ? `"${s.replaceAll('"', '""')}"` : s;
+/** Appends text of single-byte characters (digits, '.', 'e', '-', '+') at `at`; returns the new end. */
+function putAscii(buf: Uint8Array, at: number, text: string): number {
+  for (let i = 0; i < text.length; i++) buf[at++] = text.charCodeAt(i);
+  return at;
 }
 
-function idText(ids: NodeIds, v: number): string {
-  if (ids.kind === "integer") return ids.ids[v].toString();
-  return csvField(utf8.decode(ids.bytes.subarray(ids.offsets[v], ids.offsets[v + 1])));
-}
-
-/** node_id,score,rank rows; the score is JavaScript's shortest round-trip decimal, so it parses back to the same bits. */
-async function writeCsv(fh: FileHandle, ids: NodeIds, scores: Float64Array, order: Uint32Array): Promise<void> {
-  await fh.writeFile("node_id,score,rank\n");
-  for (let i0 = 0; i0 < order.length; i0 += CSV_CHUNK_ROWS) {
-    const i1 = Math.min(i0 + CSV_CHUNK_ROWS, order.length);
-    let chunk = "";
-    for (let i = i0; i < i1; i++) {
-      const v = order[i];
-      chunk += `${idText(ids, v)},${scores[v]},${i + 1}\n`;
-    }
-    await fh.writeFile(chunk);
+/** Appends the decimal digits of a non-negative integer below 2^53. */
+function putUint(buf: Uint8Array, at: number, v: number): number {
+  if (v < 10) {
+    buf[at] = 48 + v;
+    return at + 1;
   }
+  let digits = 0;
+  for (let t = v; t >= 1; t = Math.floor(t / 10)) digits++;
+  for (let i = at + digits - 1; i >= at; i--) {
+    const q = Math.floor(v / 10);
+    buf[i] = 48 + (v - q * 10);
+    v = q;
+  }
+  return at + digits;
+}
+
+/** Appends a node id as a CSV field: integers as digits, strings quoted when they hold '"', ',', CR or LF. */
+function putId(buf: Uint8Array, at: number, ids: NodeIds, v: number): number {
+  if (ids.kind === "integer") {
+    const id = ids.ids[v];
+    return id <= 0x1fffffffffffffn ? putUint(buf, at, Number(id)) : putAscii(buf, at, id.toString());
+  }
+  const bytes = ids.bytes.subarray(ids.offsets[v], ids.offsets[v + 1]);
+  let plain = true;
+  for (let i = 0; i < bytes.length; i++) {
+    const b = bytes[i];
+    if (b === QUOTE || b === COMMA || b === NEWLINE || b === 0x0d) {
+      plain = false;
+      break;
+    }
+  }
+  if (plain) {
+    buf.set(bytes, at);
+    return at + bytes.length;
+  }
+  buf[at++] = QUOTE;
+  for (let i = 0; i < bytes.length; i++) {
+    if (bytes[i] === QUOTE) buf[at++] = QUOTE;
+    buf[at++] = bytes[i];
+  }
+  buf[at++] = QUOTE;
+  return at;
+}
+
+/**
+ * node_id,score,rank rows, formatted straight into bytes; the score is JavaScript's shortest round-trip decimal, so it
+ * parses back to the same bits. String ids are checked to be UTF-8 once, up front.
+ */
+async function writeCsv(fh: FileHandle, ids: NodeIds, scores: Float64Array, order: Uint32Array): Promise<void> {
+  if (ids.kind === "string") utf8.decode(ids.bytes);
+  let longest = 0;
+  if (ids.kind === "string") for (let v = 0; v + 1 < ids.offsets.length; v++) longest = Math.max(longest, ids.offsets[v + 1] - ids.offsets[v]);
+  const rowMax = 2 * longest + 64;
+  const buf = new Uint8Array(Math.max(CSV_BUFFER_BYTES, 2 * rowMax));
+  let at = putAscii(buf, 0, "node_id,score,rank\n");
+  for (let i = 0; i < order.length; i++) {
+    if (at + rowMax > buf.length) {
+      await fh.write(buf, 0, at);
+      at = 0;
+    }
+    const v = order[i];
+    at = putId(buf, at, ids, v);
+    buf[at++] = COMMA;
+    at = putAscii(buf, at, String(scores[v]));
+    buf[at++] = COMMA;
+    at = putUint(buf, at, i + 1);
+    buf[at++] = NEWLINE;
+  }
+  if (at > 0) await fh.write(buf, 0, at);
 }
 
 function idCount(ids: NodeIds): number {
@@ -56,12 +111,15 @@ export async function writeScores(
   }
   const order = rankOrder(scores);
   if (format === "csv") return writeAtomic(path, (fh) => writeCsv(fh, ids, scores, order));
+  // Arrow and Parquet load on first use: their modules take longer to start than a whole small CSV run.
+  const [{ tableToIPC }, { scoreTable }] = await Promise.all([import("apache-arrow"), import("./score-table")]);
   const table = scoreTable(ids, scores, order, meta);
   if (format === "arrow") {
     const bytes = tableToIPC(table, "file");
     return writeAtomic(path, async (fh) => fh.writeFile(bytes));
   }
   if (format === "parquet") {
+    const { Compression, Table: WasmTable, WriterPropertiesBuilder, writeParquet } = await import("parquet-wasm/node");
     const wasmTable = WasmTable.fromIPCStream(tableToIPC(table, "stream"));
     const props = new WriterPropertiesBuilder()
       .setCompression(Compression.ZSTD)
