@@ -73,6 +73,7 @@ export const RunTimingsSchema = z.looseObject({
   queuedMs: z.number().optional(),
   loadMs: z.number().optional(),
   setupMs: z.number().optional(),
+  /** The iterations' own times summed (every attempt of a retried run), and their mean. */
   iterateMs: z.number().optional(),
   perIterationMs: z.number().optional(),
   writeMs: z.number().optional(),

@@ -16,7 +16,7 @@ import { releaseRun } from "./queue-repo";
 import { sendRunMail, type RunOutcome } from "./run-mail";
 import { writeRunOutputs } from "./run-outputs";
 import { RunRecorder } from "./run-recorder";
-import { deleteShardsFrom, finishRun, iterationResidual, type FinalRecord } from "./run-repo";
+import { deleteShardsFrom, finishRun, iterationResidual, iterationTimes, type FinalRecord } from "./run-repo";
 import { resolveSeedIds, UnknownSeedsError } from "./seeds";
 
 let cached: { key: string; graph: Graph; meta: StoreMeta } | null = null;
@@ -256,13 +256,16 @@ export async function executeRun(ctx: RunnerContext, claim: ClaimedRun, job: Job
   } catch (error) {
     return fail(`The score files could not be written: ${message(error)}`, progress);
   }
+  // From the iterations' own times, not this attempt's wall clock: a retried run counts every attempt's iterations,
+  // and neither the pause before the retry nor checkpoint and recording time.
+  const own = await ctx.retry("iteration times", () => iterationTimes(ctx.db, run.id, result.iterations));
   const now = performance.now();
   const timings = {
     ...(run.startedAt ? { queuedMs: Math.max(0, run.startedAt.getTime() - run.createdAt.getTime()) } : {}),
     loadMs: tLoaded - t0,
     setupMs: result.timings.setupMs,
-    iterateMs: result.timings.iterateMs,
-    perIterationMs: result.timings.perIterationMs,
+    iterateMs: own.totalMs,
+    perIterationMs: own.count > 0 ? own.totalMs / own.count : 0,
     writeMs: now - tOut,
     totalMs: now - t0,
   };

@@ -1,5 +1,5 @@
 // What the runner writes about a run: iteration history, shard states, events, progress, the final record, top-k.
-import { and, eq, sql } from "drizzle-orm";
+import { and, eq, lte, sql } from "drizzle-orm";
 import { runEvents, runIterations, runs, runShards, runTop } from "../../../api/src/db/schema";
 import type { Db, Executor } from "../../../api/src/lib/db";
 
@@ -23,6 +23,15 @@ export async function upsertIterations(db: Executor, teamId: number, runId: numb
         elapsedMs: sql`VALUES(${runIterations.elapsedMs})`,
       },
     });
+}
+
+/** How many of iterations 1..k are recorded, and the sum of their own times (whichever attempt ran each). */
+export async function iterationTimes(db: Executor, runId: number, k: number): Promise<{ count: number; totalMs: number }> {
+  const rows = await db
+    .select({ n: sql<number>`count(*)`, ms: sql<number | null>`sum(${runIterations.elapsedMs})` })
+    .from(runIterations)
+    .where(and(eq(runIterations.runId, runId), lte(runIterations.k, k)));
+  return { count: Number(rows[0]?.n ?? 0), totalMs: Number(rows[0]?.ms ?? 0) };
 }
 
 export interface ShardRow {
