@@ -16,6 +16,7 @@ import { BAD_LINE_SAMPLES, type IdMode, type ParsedPart, type ParserConfig } fro
 import { resolveGraphOptions, resolveLimits, type GraphOptions, type IngestLimits } from "./options";
 import { sniffFormat } from "./sniff";
 import { ChunkReader } from "./source";
+import { scanModule } from "./wasm-scan";
 import { degreeStats, type GraphStats } from "./stats";
 
 export interface IngestProgress {
@@ -36,6 +37,8 @@ export interface IngestRun {
   onProgress?: (p: IngestProgress) => void;
   /** Number ids through hash tables even when a direct table would do (tests compare both paths). */
   hashIds?: boolean;
+  /** Scan integer lines in JS instead of WebAssembly (tests compare both). */
+  jsScanner?: boolean;
 }
 
 export interface IngestResult {
@@ -78,6 +81,7 @@ export async function ingestEdgeFile(path: string, options: Partial<GraphOptions
       atFileStart: false,
       expectedLines: expectedLines / Math.max(1, workerCount),
       hashIds: run.hashIds,
+      scanModule: run.jsScanner ? null : scanModule(),
     };
     for (const lane of lanes) lane.init(workerCount > 0 && lane instanceof LocalLane ? { ...cfg, expectedLines: 1 << 20 } : cfg);
 

@@ -12,6 +12,7 @@ import { BytesTable } from "./bytes-table";
 import { isAllDigits, isValidUtf8, latin1, parseU64Digits, parseWeight } from "./bytes";
 import type { BadLine, BadLineReason } from "./errors";
 import { scanIntegerLines, type ScanState } from "./fast-scan";
+import { WasmScanner } from "./wasm-scan";
 import { scanWideLines } from "./fast-scan-wide";
 import { MAX_FIELDS, splitFields, unquote, UNTERMINATED_QUOTE } from "./fields";
 import { hasBom, type FileFormat } from "./sniff";
@@ -36,6 +37,8 @@ export interface ParserConfig {
   expectedLines?: number;
   /** Start in "int" mode instead of "raw" (tests use it to compare both paths). */
   hashIds?: boolean;
+  /** The compiled WebAssembly scanner for integer lines (see wasm-scan.ts); without it the JS scanner runs. */
+  scanModule?: WebAssembly.Module | null;
 }
 
 export interface ParseCounts {
@@ -93,6 +96,7 @@ export class LineParser {
   private headerPending: boolean;
   private readonly fields = new Int32Array(3 * MAX_FIELDS);
   private readonly scratch: Uint8Array;
+  private readonly wasm: WasmScanner | null;
   private readonly pair = new Uint32Array(4);
   private readonly spans = new Int32Array(4);
   private readonly idBufs: Uint8Array[] = [new Uint8Array(0), new Uint8Array(0)];
@@ -116,6 +120,7 @@ export class LineParser {
       weightMax: -Infinity,
     };
     if (cfg.hashIds) this.intTable = new U64Table(1024);
+    this.wasm = cfg.scanModule ? new WasmScanner(cfg.scanModule) : null;
     if (cfg.format.idKind === "string") this.toStrings();
     this.startPending = cfg.atFileStart;
     this.headerPending = cfg.atFileStart && cfg.format.header;
@@ -273,7 +278,7 @@ export class LineParser {
           }
           p = scanWideLines(buf, p, e, st, this.hiSrc, this.hiDst, m0);
           this.mapWide(m0, st.m);
-        } else p = scanIntegerLines(buf, p, e, st);
+        } else p = this.wasm ? this.wasm.scan(buf, p, e, st) : scanIntegerLines(buf, p, e, st);
         if (p >= e) return;
         if (st.m === st.src.length) {
           this.grow();
