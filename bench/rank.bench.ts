@@ -1,13 +1,13 @@
 // End-to-end benchmark of `stillpoint rank` on R-MAT graphs, against the plain C reference when it can be built.
 //   npm run bench -- [--scales 16,18,20] [--runs 3] [--threads N] [--no-reference]
-// Per scale: our CLI with --keep-self-loops --json and the reference on the same cached text file, runs alternating,
-// medians reported. The reference counts duplicate edges with their multiplicity, which is the transition matrix our
+// Per scale: our CLI with --keep-self-loops --json --out scores.csv (text in, CSV score file out) and the reference on
+// the same cached text file, runs alternating, medians reported. The reference writes no score file. The reference counts duplicate edges with their multiplicity, which is the transition matrix our
 // default merging gives (weights = multiplicities). Writes a JSON report to bench/results/.
 
 import { execFile, spawnSync } from "node:child_process";
 import { existsSync, mkdirSync, statSync, writeFileSync } from "node:fs";
 import { availableParallelism, tmpdir } from "node:os";
-import { join } from "node:path";
+import { basename, dirname, join } from "node:path";
 import { rmatFile } from "./rmat";
 
 const ROOT = join(import.meta.dirname, "..");
@@ -60,6 +60,7 @@ interface Ours {
   buildMs: number;
   perIterationMs: number;
   iterations: number;
+  writeMs: number;
   totalMs: number;
   peakRssBytes: number;
   parseMBps: number;
@@ -71,7 +72,8 @@ interface Ours {
 }
 
 async function runOurs(file: string, threads: number): Promise<Ours> {
-  const r = await run(process.execPath, [BIN, "rank", file, "--keep-self-loops", "--json", "--top", "0", "--threads", String(threads)]);
+  const out = join(dirname(file), `scores-${basename(file, ".tsv")}.csv`);
+  const r = await run(process.execPath, [BIN, "rank", file, "--keep-self-loops", "--json", "--top", "0", "--threads", String(threads), "--out", out]);
   const j = JSON.parse(r.value);
   return {
     wallMs: r.wallMs,
@@ -79,6 +81,7 @@ async function runOurs(file: string, threads: number): Promise<Ours> {
     buildMs: j.timings.build,
     perIterationMs: j.timings.perIteration,
     iterations: j.iterations,
+    writeMs: j.timings.write,
     totalMs: j.timings.total,
     peakRssBytes: j.peakRssBytes,
     parseMBps: j.ingest.parseMBps,
@@ -192,12 +195,14 @@ async function main(): Promise<void> {
     };
     results.push(row);
     console.log(`\nscale ${scale}: ${o.nodes} nodes, ${o.edges} edges after merging, ${mib(bytes)} of text`);
+    console.log(`  startup     ${fmt(o.wallMs - o.totalMs, 0)} ms (wall time outside the command's own timings)`);
     console.log(`  parse       ${fmt(o.parseMBps, 0)} MB/s (${fmt(o.parseMs, 0)} ms)${c ? `   reference ${fmt(c.parseMBps, 0)} MB/s (${fmt(c.parseMs, 0)} ms)` : ""}`);
     console.log(`  build       ${fmt(o.buildMs, 0)} ms${c ? `   reference ${fmt(c.buildMs, 0)} ms` : ""}`);
     console.log(
       `  iteration   ${fmt(o.perIterationMs, 2)} ms × ${o.iterations} to 1e-9 (${o.converged ? "converged" : "NOT converged"})` +
         `${c ? `   reference ${fmt(c.perIterationMs, 2)} ms × ${c.iterations}` : ""}`,
     );
+    console.log(`  write       ${fmt(o.writeMs, 0)} ms (CSV score file, ${o.nodes} rows)`);
     console.log(`  throughput  ${fmt(row.edgesPerSecondPerIteration / 1e6, 0)} M edges/s per iteration, ${o.threads} threads`);
     console.log(`  graph       ${fmt(row.bytesPerEdge, 2)} bytes per edge prepared (${mib(o.graphBytes)}); peak RSS ${fmt(row.peakRssPerGraphByte, 2)}× that`);
     console.log(`  peak RSS    ${mib(o.peakRssBytes)}${c ? `   reference ${mib(c.peakRssBytes)}` : ""}`);
