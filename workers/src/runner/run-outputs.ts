@@ -5,6 +5,8 @@ import { SCORE_FILE_NAMES, scoreRelPath, type RunOutputs } from "../../../api/sr
 import type { NodeIds } from "../core/graph";
 import { topK } from "../output/rank-order";
 import { writeScores, type ScoreFormat } from "../output/write-scores";
+import { SCORE_INDEX_FILE } from "../score-index/format";
+import { writeScoreIndex } from "../score-index/write";
 import { runDirPath, type RunnerContext } from "./context";
 import { replaceTop } from "./run-repo";
 import { idText } from "./seeds";
@@ -30,6 +32,8 @@ export async function writeRunOutputs(
     await writeScores(file, format, ids, scores, meta);
     files.push({ format, path: scoreRelPath(run.id, format), bytes: (await stat(file)).size });
   }
+  // Lookup, compare and the histogram read this; the API rebuilds it from the Arrow file if it is ever missing.
+  await writeScoreIndex(path.join(abs, SCORE_INDEX_FILE), { ids, scores });
   const order = topK(scores, Math.min(k, scores.length));
   const rows = Array.from(order, (v, i) => ({ rank: i + 1, nodeId: idText(ids, v), score: scores[v] }));
   await ctx.retry("store top-k", () => replaceTop(ctx.db, run.teamId, run.id, rows));

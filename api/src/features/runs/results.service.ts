@@ -5,7 +5,8 @@ import { decodeCursor, encodeCursor } from "../../lib/cursor";
 import { AppError, ERRORS } from "../../lib/errors";
 import { requireRun } from "./runs.service";
 import { topByNode, topRows, type RunRow } from "./runs.repo";
-import { csvHead, findCsvRow, outputsOf, scoreColumns, scoreFile } from "./score-files";
+import { withScoreIndex } from "./score-index";
+import { csvHead, outputsOf, scoreFile } from "./score-files";
 import { certainPositions, certainPrefix } from "./top-certainty";
 
 async function scoreBelowTop(deps: AppDeps, run: RunRow, total: number): Promise<number | null | undefined> {
@@ -52,48 +53,14 @@ export async function lookupNode(deps: AppDeps, principal: Principal, id: number
   const { run } = row;
   const nodes = outputsOf(run)?.nodes ?? 0;
   const nodeId = canonicalId(rawNodeId, row.graphStatistics?.idKind);
-  const file = await scoreFile(deps.config.dataDir, run, "csv");
-  const hit = (await topByNode(deps.db, run.id, nodeId)) ?? (await findCsvRow(file.path, nodeId));
+  // The top-k rows answer most lookups without touching the index (and without building one for an older run).
+  const hit = (await topByNode(deps.db, run.id, nodeId)) ?? (await withScoreIndex(deps.config.dataDir, run, (index) => index.lookup(nodeId)));
   if (!hit) throw new AppError(ERRORS.notFound, { message: `Node ${JSON.stringify(nodeId)} is not in this run's graph.`, details: { nodeId } });
   const of = nodes || hit.rank;
   return { nodeId, rank: hit.rank, score: hit.score, of, percentile: of > 0 ? (hit.rank - 1) / of : 0 };
 }
 
-const BINS_PER_DECADE = 4;
-
-/** Counts scores in log10 bins [10^(e/4), 10^((e+1)/4)) between the smallest and largest positive score. */
-export function logHistogram(scores: Float64Array): Histogram {
-  let zeros = 0;
-  let min = Infinity;
-  let max = -Infinity;
-  for (const s of scores) {
-    if (s <= 0) {
-      zeros++;
-      continue;
-    }
-    if (s < min) min = s;
-    if (s > max) max = s;
-  }
-  if (min === Infinity) return { bins: [], zeros, nodes: scores.length, minScore: null, maxScore: null };
-  const lo = Math.floor(Math.log10(min) * BINS_PER_DECADE);
-  const hi = Math.floor(Math.log10(max) * BINS_PER_DECADE);
-  const counts = new Array<number>(hi - lo + 1).fill(0);
-  for (const s of scores) {
-    if (s <= 0) continue;
-    const b = Math.min(hi, Math.max(lo, Math.floor(Math.log10(s) * BINS_PER_DECADE))) - lo;
-    counts[b]++;
-  }
-  return {
-    bins: counts.map((count, i) => ({ min: 10 ** ((lo + i) / BINS_PER_DECADE), max: 10 ** ((lo + i + 1) / BINS_PER_DECADE), count })),
-    zeros,
-    nodes: scores.length,
-    minScore: min,
-    maxScore: max,
-  };
-}
-
 export async function getHistogram(deps: AppDeps, principal: Principal, id: number): Promise<Histogram> {
   const { run } = await requireRun(deps.db, principal, id);
-  const columns = await scoreColumns(deps.config.dataDir, run);
-  return logHistogram(columns.scores);
+  return withScoreIndex(deps.config.dataDir, run, async (index) => index.histogram);
 }

@@ -1,6 +1,5 @@
 import { createReadStream } from "node:fs";
-import { readFile, stat } from "node:fs/promises";
-import { tableFromIPC } from "apache-arrow";
+import { stat } from "node:fs/promises";
 import type { ScoreFormat } from "../../../contracts/runs";
 import { dataPath, type RunOutputs } from "../../lib/data-paths";
 import { AppError, ERRORS } from "../../lib/errors";
@@ -33,34 +32,6 @@ export async function scoreFile(dataDir: string, run: RunRow, format: ScoreForma
   return { path: full, bytes: info.size, mtime: info.mtime };
 }
 
-function csvField(s: string): string {
-  return /[",\r\n]/.test(s) ? `"${s.replaceAll('"', '""')}"` : s;
-}
-
-/**
- * Finds one node's row in a score CSV (`node_id,score,rank`, one row per node) by scanning bytes for
- * "\n<id>," — no string per line, constant memory. Null when the id is not in the file.
- */
-export async function findCsvRow(file: string, nodeId: string): Promise<{ score: number; rank: number } | null> {
-  const needle = Buffer.from(`\n${csvField(nodeId)},`, "utf8");
-  let carry: Buffer = Buffer.alloc(0);
-  for await (const chunk of createReadStream(file, { highWaterMark: 1 << 20 }) as AsyncIterable<Buffer>) {
-    const buf = carry.length > 0 ? Buffer.concat([carry, chunk]) : chunk;
-    const at = buf.indexOf(needle);
-    if (at >= 0) {
-      const end = buf.indexOf(10, at + needle.length);
-      if (end >= 0) {
-        const [score, rank] = buf.subarray(at + needle.length, end).toString("utf8").split(",");
-        return { score: Number(score), rank: Number(rank) };
-      }
-      carry = buf.subarray(at);
-      continue;
-    }
-    carry = buf.subarray(Math.max(0, buf.length - (needle.length - 1)));
-  }
-  return null;
-}
-
 /** The first `rows` data rows of a score CSV (rank order), without reading the rest. */
 export async function csvHead(file: string, rows: number): Promise<{ nodeId: string; score: number; rank: number }[]> {
   const out: { nodeId: string; score: number; rank: number }[] = [];
@@ -88,45 +59,4 @@ export async function csvHead(file: string, rows: number): Promise<{ nodeId: str
     stream.destroy();
   }
   return out;
-}
-
-/** Node ids (as text) and scores in rank order: row i has rank i + 1. */
-export interface ScoreColumns {
-  ids: string[];
-  scores: Float64Array;
-}
-
-const CACHE_LIMIT = 4;
-const CACHE_MAX_NODES = 2_000_000;
-const cache = new Map<string, Promise<ScoreColumns>>();
-
-async function readColumns(file: string): Promise<ScoreColumns> {
-  const table = tableFromIPC(await readFile(file));
-  const idColumn = table.getChild("node_id");
-  const scoreColumn = table.getChild("score");
-  if (!idColumn || !scoreColumn) throw new Error(`${file}: not a score file (node_id and score columns expected)`);
-  const scores = Float64Array.from(scoreColumn.toArray() as Float64Array);
-  const rawIds = idColumn.toArray() as ArrayLike<bigint | string>;
-  const ids = new Array<string>(rawIds.length);
-  for (let i = 0; i < rawIds.length; i++) ids[i] = String(rawIds[i]);
-  return { ids, scores };
-}
-
-/** Reads a finished run's Arrow score file; score files never change once written, so a few are kept in memory. */
-export async function scoreColumns(dataDir: string, run: RunRow): Promise<ScoreColumns> {
-  const file = await scoreFile(dataDir, run, "arrow");
-  const key = `${file.path}:${file.bytes}:${file.mtime.getTime()}`;
-  const hit = cache.get(key);
-  if (hit) {
-    cache.delete(key);
-    cache.set(key, hit);
-    return hit;
-  }
-  const loading = readColumns(file.path);
-  if ((outputsOf(run)?.nodes ?? 0) <= CACHE_MAX_NODES) {
-    cache.set(key, loading);
-    loading.catch(() => cache.delete(key));
-    while (cache.size > CACHE_LIMIT) cache.delete(cache.keys().next().value as string);
-  }
-  return loading;
 }
