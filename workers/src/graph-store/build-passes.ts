@@ -1,29 +1,38 @@
-// The two scatter passes of the CSR build, each over one slice of the work so that threads can share a pass: every
-// slice reads all arcs but writes only memory it owns, and the result is the same bits for any number of slices.
-// Naming: c = canonical node id (original-id order), u/v = final ids, x = a value as stored by the parser.
+// The passes of the CSR build, each over one slice of the work so that threads can share a pass: every slice writes
+// only memory it owns, and the result is the same bits for any number of slices.
+// First the parsed arcs are relabelled in place to final ids (independent lookups, which the CPU overlaps); the
+// scatters then follow one dependent load per arc instead of two. Naming: u/v = final ids, x = a value as stored by the
+// parser.
 
 export interface PassSegment {
   src: Uint32Array;
   dst: Uint32Array;
   weight: Float64Array | null;
-  /** x → c */
-  map: Uint32Array;
-  /** x → final id */
-  fmap: Uint32Array;
-  /** When set, c = map[x] is increasing in x and the slice [cLo, cHi) is exactly x in [xLo, xHi). */
-  xLo: number | null;
-  xHi: number | null;
+}
+
+/** Relabel pass: x → fmap[x] in place, for both ends of every arc of the slice's segments. */
+export interface PassRelabel {
+  segments: Array<{ src: Uint32Array; dst: Uint32Array; fmap: Uint32Array }>;
+}
+
+export function relabelArcs(t: PassRelabel): void {
+  for (const { src, dst, fmap } of t.segments) {
+    for (let i = 0; i < src.length; i++) {
+      src[i] = fmap[src[i]];
+      dst[i] = fmap[dst[i]];
+    }
+  }
 }
 
 /**
- * Pass A over the arcs whose source has canonical id in [cLo, cHi): arcs grouped by final source into
- * bySrcDst/bySrcW at cursor[u] (cursor advances), in file order inside each group. Undirected lines give both arcs;
- * each goes to its own source's owner.
+ * Pass A over the arcs whose source is in [uLo, uHi): arcs grouped by source into bySrcDst/bySrcW at cursor[u]
+ * (cursor advances), in file order inside each group. Undirected lines give both arcs; each goes to its own source's
+ * owner.
  */
 export interface PassA {
   segments: PassSegment[];
-  cLo: number;
-  cHi: number;
+  uLo: number;
+  uHi: number;
   dropSelf: boolean;
   both: boolean;
   cursor: Uint32Array;
@@ -32,46 +41,29 @@ export interface PassA {
 }
 
 export function scatterBySource(t: PassA): void {
-  for (const seg of t.segments) scatterSegment(t, seg);
-}
-
-function scatterSegment(t: PassA, seg: PassSegment): void {
-  const { src, dst, weight, map, fmap } = seg;
-  const { cLo, cHi, dropSelf, both, cursor, bySrcDst, bySrcW } = t;
-  const direct = seg.xLo !== null && seg.xHi !== null;
-  const xLo = seg.xLo ?? 0;
-  const xHi = seg.xHi ?? 0;
-  for (let i = 0; i < src.length; i++) {
-    const x = src[i];
-    const y = dst[i];
-    let ownX: boolean;
-    let ownY: boolean;
-    if (direct) {
-      ownX = x >= xLo && x < xHi;
-      ownY = both && y >= xLo && y < xHi;
-    } else {
-      const cx = map[x];
-      ownX = cx >= cLo && cx < cHi;
-      const cy = both ? map[y] : -1;
-      ownY = cy >= cLo && cy < cHi;
-    }
-    if (!ownX && !ownY) continue;
-    if (x === y) {
-      if (dropSelf) continue;
-      ownY = false;
-    }
-    const u = fmap[x];
-    const v = fmap[y];
-    const w = weight !== null ? weight[i] : 1;
-    if (ownX) {
-      const p = cursor[u]++;
-      bySrcDst[p] = v;
-      if (bySrcW !== null) bySrcW[p] = w;
-    }
-    if (ownY) {
-      const p = cursor[v]++;
-      bySrcDst[p] = u;
-      if (bySrcW !== null) bySrcW[p] = w;
+  const { uLo, uHi, dropSelf, both, cursor, bySrcDst, bySrcW } = t;
+  for (const { src, dst, weight } of t.segments) {
+    for (let i = 0; i < src.length; i++) {
+      const u = src[i];
+      const v = dst[i];
+      const ownU = u >= uLo && u < uHi;
+      let ownV = both && v >= uLo && v < uHi;
+      if (!ownU && !ownV) continue;
+      if (u === v) {
+        if (dropSelf) continue;
+        ownV = false;
+      }
+      const w = weight !== null ? weight[i] : 1;
+      if (ownU) {
+        const p = cursor[u]++;
+        bySrcDst[p] = v;
+        if (bySrcW !== null) bySrcW[p] = w;
+      }
+      if (ownV) {
+        const p = cursor[v]++;
+        bySrcDst[p] = u;
+        if (bySrcW !== null) bySrcW[p] = w;
+      }
     }
   }
 }
@@ -131,18 +123,16 @@ export function fillInLists(t: PassB): number {
 }
 
 /**
- * Unweighted graphs skip pass A: arcs whose target has canonical id in [cLo, cHi) go straight into their in-lists
- * (fill[v] advances), then each of those lists is sorted by source. Equal sources are interchangeable without
- * weights, so the result equals the two-pass build's.
+ * Unweighted graphs skip pass A: arcs whose target is in [vLo, vHi) go straight into their in-lists (fill[v]
+ * advances), then each of those lists is sorted by source. Equal sources are interchangeable without weights, so the
+ * result equals the two-pass build's.
  */
 export interface PassD {
   segments: PassSegment[];
-  cLo: number;
-  cHi: number;
+  vLo: number;
+  vHi: number;
   dropSelf: boolean;
   both: boolean;
-  /** c → final id */
-  perm: Uint32Array;
   inOffsets: Uint32Array;
   fill: Uint32Array;
   sources: Uint32Array;
@@ -152,39 +142,35 @@ const INSERTION_SORT_MAX = 48;
 
 /** Returns the number of arcs in the slice's lists equal to the arc before them (duplicates). */
 export function scatterByTarget(t: PassD): number {
-  const { cLo, cHi, dropSelf, both, fill, sources } = t;
-  for (const seg of t.segments) {
-    const { src, dst, map, fmap } = seg;
-    const direct = seg.xLo !== null && seg.xHi !== null;
-    const xLo = seg.xLo ?? 0;
-    const xHi = seg.xHi ?? 0;
+  const { vLo, vHi, dropSelf, both, fill, sources } = t;
+  for (const { src, dst } of t.segments) {
+    if (!both) {
+      for (let i = 0; i < src.length; i++) {
+        const v = dst[i];
+        if (v < vLo || v >= vHi) continue;
+        const u = src[i];
+        if (u === v && dropSelf) continue;
+        sources[fill[v]++] = u;
+      }
+      continue;
+    }
     for (let i = 0; i < src.length; i++) {
-      const x = src[i];
-      const y = dst[i];
-      let ownY: boolean;
-      let ownX: boolean;
-      if (direct) {
-        ownY = y >= xLo && y < xHi;
-        ownX = both && x >= xLo && x < xHi;
-      } else {
-        const cy = map[y];
-        ownY = cy >= cLo && cy < cHi;
-        const cx = both ? map[x] : -1;
-        ownX = cx >= cLo && cx < cHi;
-      }
-      if (!ownX && !ownY) continue;
-      if (x === y) {
+      const u = src[i];
+      const v = dst[i];
+      const ownV = v >= vLo && v < vHi;
+      let ownU = u >= vLo && u < vHi;
+      if (!ownU && !ownV) continue;
+      if (u === v) {
         if (dropSelf) continue;
-        ownX = false;
+        ownU = false;
       }
-      if (ownY) sources[fill[fmap[y]]++] = fmap[x];
-      if (ownX) sources[fill[fmap[x]]++] = fmap[y];
+      if (ownV) sources[fill[v]++] = u;
+      if (ownU) sources[fill[u]++] = v;
     }
   }
-  const { perm, inOffsets } = t;
+  const { inOffsets } = t;
   let dups = 0;
-  for (let c = cLo; c < cHi; c++) {
-    const v = perm[c];
+  for (let v = vLo; v < vHi; v++) {
     const a = inOffsets[v];
     const b = inOffsets[v + 1];
     if (b - a > INSERTION_SORT_MAX) {

@@ -11,12 +11,14 @@ import {
   countValues,
   fillInLists,
   NO_SOURCE,
+  relabelArcs,
   scatterBySource,
   scatterByTarget,
   type PassA,
   type PassB,
   type PassCount,
   type PassD,
+  type PassRelabel,
   type PassSegment,
 } from "./build-passes";
 import { graphBytes, runBytes, SharedHeap } from "../core/shared-heap";
@@ -51,7 +53,8 @@ export type PassTask =
   | { kind: "count"; task: PassCount }
   | { kind: "a"; task: PassA }
   | { kind: "b"; task: PassB }
-  | { kind: "d"; task: PassD };
+  | { kind: "d"; task: PassD }
+  | { kind: "relabel"; task: PassRelabel };
 
 /** Runs one pass's slices (on worker threads, or here); resolves with each slice's result (merged arcs for pass B). */
 export interface PassRunner {
@@ -74,6 +77,10 @@ export function runPass(t: PassTask): number {
     return 0;
   }
   if (t.kind === "d") return scatterByTarget(t.task);
+  if (t.kind === "relabel") {
+    relabelArcs(t.task);
+    return 0;
+  }
   return fillInLists(t.task);
 }
 
@@ -100,30 +107,29 @@ export async function buildGraph(
   const perm = policy.renumber ? hubsFirst(counts.out) : identity(n);
   const outStart = sharedU32(n + 1);
   const inOffsets = finalU32(n + 1);
-  const outByC = new Float64Array(n + 1);
   for (let c = 0; c < n; c++) {
     outStart[perm[c] + 1] = counts.out[c];
     inOffsets[perm[c] + 1] = counts.in[c];
-    outByC[c + 1] = outByC[c] + counts.out[c];
   }
   for (let u = 0; u < n; u++) {
     outStart[u + 1] += outStart[u];
     inOffsets[u + 1] += inOffsets[u];
   }
 
+  // Relabel the parsed arcs in place to final ids, segments split across slices by arc count. The parsed arrays are
+  // the build's own from here on.
   const fmaps = new Map<Uint32Array, Uint32Array>();
-  const segments: PassSegment[] = input.segments.map((seg) => {
+  const relabel = input.segments.map((seg) => {
     let fmap = fmaps.get(seg.map);
     if (!fmap) {
       fmap = compose(perm, seg.map);
       fmaps.set(seg.map, fmap);
     }
-    return { src: seg.src, dst: seg.dst, weight: seg.weight, map: seg.map, fmap, xLo: null, xHi: null };
+    return { src: seg.src, dst: seg.dst, fmap };
   });
-  const sliceSegments = (cLo: number, cHi: number) => {
-    const bounds = input.monotone ? xBounds(input.ids, cLo, cHi) : null;
-    return bounds ? segments.map((s) => ({ ...s, xLo: bounds[0], xHi: bounds[1] })) : segments;
-  };
+  await runner.run(splitByLength(relabel, slices).map((part) => ({ kind: "relabel" as const, task: { segments: part } })));
+  fmaps.clear();
+  const segments: PassSegment[] = input.segments.map((seg) => ({ src: seg.src, dst: seg.dst, weight: seg.weight }));
   const ids = () => permuteIds(input.ids, perm);
   const reportOf = (merged: number): BuildReport => ({
     arcs,
@@ -137,15 +143,11 @@ export async function buildGraph(
     const sources = finalU32(arcs);
     const fill = sharedU32(n);
     fill.set(inOffsets.subarray(0, n));
-    const permShared = sharedU32(n);
-    permShared.set(perm);
-    const inByC = new Float64Array(n + 1);
-    for (let c = 0; c < n; c++) inByC[c + 1] = inByC[c] + counts.in[c];
-    const cuts = balancedCuts((c) => inByC[c], n, slices);
+    const cuts = balancedCuts((v) => inOffsets[v], n, slices);
     const dupsBySlice = await runner.run(
-      cuts.slice(0, -1).map((cLo, k) => ({
+      cuts.slice(0, -1).map((vLo, k) => ({
         kind: "d" as const,
-        task: { segments: sliceSegments(cLo, cuts[k + 1]), cLo, cHi: cuts[k + 1], dropSelf, both, perm: permShared, inOffsets, fill, sources },
+        task: { segments, vLo, vHi: cuts[k + 1], dropSelf, both, inOffsets, fill, sources },
       })),
     );
     const dups = dupsBySlice.reduce((a, b) => a + b, 0);
@@ -168,16 +170,16 @@ export async function buildGraph(
   const bySrcW = sharedF64(arcs);
   const cursor = sharedU32(n);
   cursor.set(outStart.subarray(0, n));
-  const cCuts = balancedCuts((c) => outByC[c], n, slices);
+  const aCuts = balancedCuts((u) => outStart[u], n, slices);
   await runner.run(
-    cCuts.slice(0, -1).map((cLo, k) => {
-      const cHi = cCuts[k + 1];
+    aCuts.slice(0, -1).map((uLo, k) => {
+      const uHi = aCuts[k + 1];
       return {
         kind: "a" as const,
         task: {
-          segments: sliceSegments(cLo, cHi),
-          cLo,
-          cHi,
+          segments,
+          uLo,
+          uHi,
           dropSelf,
           both,
           cursor,
@@ -235,11 +237,16 @@ export async function buildGraph(
   return { graph, report: reportOf(merged) };
 }
 
-/** Stored-value bounds of canonical range [cLo, cHi) when values are the integer ids themselves. */
-function xBounds(ids: NodeIds, cLo: number, cHi: number): [number, number] {
-  if (ids.kind !== "integer") throw new Error("monotone numbering needs integer ids");
-  const at = (c: number) => (c < ids.ids.length ? Number(ids.ids[c]) : 2 ** 53);
-  return [at(cLo), at(cHi)];
+/** Split items into `parts` runs of consecutive items with about equal total length (some runs may be empty). */
+function splitByLength<T extends { src: Uint32Array }>(items: T[], parts: number): T[][] {
+  const total = items.reduce((a, it) => a + it.src.length, 0);
+  const out: T[][] = Array.from({ length: parts }, () => []);
+  let seen = 0;
+  for (const it of items) {
+    out[Math.min(parts - 1, Math.floor((seen * parts) / Math.max(1, total)))].push(it);
+    seen += it.src.length;
+  }
+  return out;
 }
 
 /** Arc counts by canonical id (the hash path; the direct path counts while numbering). */

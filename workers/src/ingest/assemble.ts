@@ -25,8 +25,6 @@ export interface CanonicalEdges {
   segments: EdgeSegment[];
   /** Arc counts by canonical id under the policy, when numbering already counted them. */
   degrees?: ArcCounts | null;
-  /** Stored values are the integer ids themselves (canonical order = value order): slices filter by value. */
-  monotone?: boolean;
 }
 
 /** Arcs per node after the self-loop policy and undirected doubling, before duplicates merge. */

@@ -151,7 +151,6 @@ export async function ingestEdgeFile(path: string, options: Partial<GraphOptions
       ids: numbering.ids,
       segments,
       degrees: numbering.degrees,
-      monotone: numbering.idPath === "direct",
     };
     const tNumbered = performance.now();
     const { graph, report } = await buildGraph(
