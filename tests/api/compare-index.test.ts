@@ -5,6 +5,7 @@ import { join } from "node:path";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { compareIndexes } from "../../api/src/features/compare/compare-index";
 import { compareColumns, type ScoreColumns } from "../../api/src/features/compare/compare.service";
+import { averageRanks, kendallTauB, spearmanRho } from "../../api/src/features/compare/rank-correlation";
 import type { NodeIds } from "../../workers/src/core/graph";
 import { mulberry32 as prng } from "../../workers/src/core/prng";
 import { rankOrder } from "../../workers/src/output/rank-order";
@@ -112,5 +113,78 @@ describe("compare from score indexes", () => {
     await expectSameAsColumns(stringRun(["ferry"], Float64Array.of(1)), stringRun(["harbour"], Float64Array.of(1)), 10, 5);
     await expectSameAsColumns(stringRun([], new Float64Array(0)), stringRun(["harbour"], Float64Array.of(1)), 10, 5);
     await expectSameAsColumns(stringRun(["a", "b"], Float64Array.of(0.5, 0.5)), stringRun(["b", "a"], Float64Array.of(0.5, 0.5)), 1, 1);
+  });
+});
+
+/** The (x, y) order and average ranks as the first version computed them, with comparison sorts. */
+function comparatorKendall(x: Float64Array, y: Float64Array): number | null {
+  const n = x.length;
+  if (n < 2) return null;
+  const order = Array.from({ length: n }, (_, i) => i).sort((i, j) => x[i] - x[j] || y[i] - y[j]);
+  const xs = Float64Array.from(order, (i) => x[i]);
+  const ys = Float64Array.from(order, (i) => y[i]);
+  let n1 = 0;
+  let n2 = 0;
+  let n3 = 0;
+  let swaps = 0;
+  const tied = (v: Float64Array) => {
+    let total = 0;
+    let run = 1;
+    for (let i = 1; i <= n; i++) {
+      if (i < n && v[i] === v[i - 1]) run++;
+      else {
+        total += (run * (run - 1)) / 2;
+        run = 1;
+      }
+    }
+    return total;
+  };
+  n1 = tied(xs);
+  let run = 1;
+  for (let i = 1; i <= n; i++) {
+    if (i < n && xs[i] === xs[i - 1] && ys[i] === ys[i - 1]) run++;
+    else {
+      n3 += (run * (run - 1)) / 2;
+      run = 1;
+    }
+  }
+  // discordant pairs by brute force over the sorted sequence
+  for (let i = 0; i < n; i++) for (let j = i + 1; j < n; j++) if (ys[i] > ys[j]) swaps++;
+  n2 = tied(Float64Array.from(ys).sort());
+  const n0 = (n * (n - 1)) / 2;
+  const denominator = Math.sqrt((n0 - n1) * (n0 - n2));
+  return denominator === 0 ? null : (n0 - n1 - n2 + n3 - 2 * swaps) / denominator;
+}
+
+function comparatorAverageRanks(v: Float64Array): Float64Array {
+  const n = v.length;
+  const order = Array.from({ length: n }, (_, i) => i).sort((i, j) => v[i] - v[j]);
+  const ranks = new Float64Array(n);
+  let i = 0;
+  while (i < n) {
+    let j = i;
+    while (j + 1 < n && v[order[j + 1]] === v[order[i]]) j++;
+    for (let k = i; k <= j; k++) ranks[order[k]] = (i + j) / 2 + 1;
+    i = j + 1;
+  }
+  return ranks;
+}
+
+describe("rank statistics over radix order", () => {
+  it.each([
+    [2, 2, 1],
+    [300, 3, 2],
+    [1500, 40, 3],
+    [2000, 1_000_000, 4],
+  ])("equal the comparison-sort computation bit for bit (n = %i, %i levels)", (n, levels, seed) => {
+    const x = scores(n, levels, seed);
+    const y = scores(n, levels, seed * 31);
+    for (let i = 0; i < n; i += 4) y[i] = x[i];
+    x[0] = -0;
+    y[1] = -0;
+    expect(Object.is(kendallTauB(x, y), comparatorKendall(x, y))).toBe(true);
+    expect(averageRanks(x)).toEqual(comparatorAverageRanks(x));
+    expect(averageRanks(y)).toEqual(comparatorAverageRanks(y));
+    expect(spearmanRho(x, y)).not.toBeNull();
   });
 });

@@ -1,4 +1,5 @@
 // Rank agreement between two score vectors over the same items, and between two ranked lists.
+import { rankOrder } from "../../../../workers/src/output/rank-order";
 
 /** Number of pairs among `t` tied items: t(t−1)/2. */
 function pairs(t: number): number {
@@ -58,9 +59,16 @@ export function kendallTauB(x: Float64Array, y: Float64Array): number | null {
   const n = x.length;
   if (y.length !== n) throw new RangeError(`y must have ${n} entries. Value: ${y.length}`);
   if (n < 2) return null;
-  const order = Array.from({ length: n }, (_, i) => i).sort((i, j) => x[i] - x[j] || y[i] - y[j]);
-  const xs = Float64Array.from(order, (i) => x[i]);
-  const ys = Float64Array.from(order, (i) => y[i]);
+  // Items by (x, y) ascending from two radix passes: by y, then stably by x (rankOrder breaks ties by position).
+  const byY = rankOrder(y);
+  const byXY = rankOrder(Float64Array.from(byY, (i) => x[i]));
+  const xs = new Float64Array(n);
+  const ys = new Float64Array(n);
+  for (let p = 0; p < n; p++) {
+    const i = byY[byXY[n - 1 - p]];
+    xs[p] = x[i];
+    ys[p] = y[i];
+  }
   const n0 = pairs(n);
   const n1 = tiedPairs(xs);
   let n3 = 0;
@@ -82,15 +90,17 @@ export function kendallTauB(x: Float64Array, y: Float64Array): number | null {
 /** Fractional ranks 1..n of `v` ascending; tied values share the mean of their positions. */
 export function averageRanks(v: Float64Array): Float64Array {
   const n = v.length;
-  const order = Array.from({ length: n }, (_, i) => i).sort((i, j) => v[i] - v[j]);
+  // Descending radix order read backwards: position p of `desc` is ascending position n − 1 − p.
+  const desc = rankOrder(v);
   const ranks = new Float64Array(n);
-  let i = 0;
-  while (i < n) {
-    let j = i;
-    while (j + 1 < n && v[order[j + 1]] === v[order[i]]) j++;
-    const rank = (i + j) / 2 + 1;
-    for (let k = i; k <= j; k++) ranks[order[k]] = rank;
-    i = j + 1;
+  let p = 0;
+  while (p < n) {
+    let q = p;
+    while (q + 1 < n && v[desc[q + 1]] === v[desc[p]]) q++;
+    // ascending positions n − 1 − q .. n − 1 − p
+    const rank = (n - 1 - q + (n - 1 - p)) / 2 + 1;
+    for (let k = p; k <= q; k++) ranks[desc[k]] = rank;
+    p = q + 1;
   }
   return ranks;
 }
