@@ -54,6 +54,40 @@ describe("stillpoint rank", () => {
     for (const t of j.top) expect(t.score).toBeCloseTo(TINY_WEB_SCORES[t.id], 7);
   });
 
+  it("counts a repeated line with its multiplicity, merged or kept, and reports the merged edges", async () => {
+    const repeated = `${TINY_WEB}1 2\n3 4\n3 4\n`;
+    const run = async (...extra: string[]) => {
+      const r = await stillpoint("rank", files.write(repeated), "--json", "--top", "6", "--tolerance", "1e-13", ...extra);
+      expect(r.code, r.stderr).toBe(0);
+      return JSON.parse(r.stdout) as { edges: number; ingest: { duplicates: number }; top: Array<{ id: string; score: number }> };
+    };
+    const merged = await run();
+    const kept = await run("--keep-duplicates");
+    expect(merged.edges).toBe(9);
+    expect(merged.ingest.duplicates).toBe(3);
+    expect(kept.edges).toBe(12);
+    const scores = (j: typeof merged) => Object.fromEntries(j.top.map((t) => [t.id, t.score]));
+    for (const [id, score] of Object.entries(scores(kept))) expect(scores(merged)[id]).toBeCloseTo(score, 12);
+    // The repeats really weigh: node 2 gets more than it does without them.
+    expect(scores(merged)["2"]).toBeGreaterThan(TINY_WEB_SCORES["2"] + 0.01);
+  });
+
+  it("runs the same without the start-up bundle (through the TypeScript loader)", async () => {
+    const path = files.write(TINY_WEB);
+    const bundled = await stillpoint("rank", path, "--json", "--threads", "1");
+    const viaLoader = await new Promise<Outcome>((resolve) => {
+      execFile(process.execPath, [BIN, "rank", path, "--json", "--threads", "1"], { cwd: ROOT, env: { ...process.env, STILLPOINT_NO_BUNDLE: "1" } }, (err, stdout, stderr) =>
+        resolve({ code: err ? 1 : 0, stdout, stderr }),
+      );
+    });
+    expect(viaLoader.code, viaLoader.stderr).toBe(0);
+    const strip = (o: Outcome) => {
+      const j = JSON.parse(o.stdout);
+      return { ...j, timings: null, peakRssBytes: null, ingest: { ...j.ingest, parseMBps: null } };
+    };
+    expect(strip(viaLoader)).toEqual(strip(bundled));
+  });
+
   it("writes every node's score to a CSV file in rank order", async () => {
     const out = files.path("scores.csv");
     const r = await stillpoint("rank", files.write(TINY_WEB), "--out", out, "--dangling", "uniform");

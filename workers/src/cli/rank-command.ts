@@ -3,7 +3,7 @@
 import { availableParallelism } from "node:os";
 import { extname } from "node:path";
 import type { Graph, NodeIds } from "../core/graph";
-import { rank, type RankResult } from "../engine/rank";
+import { rank, RankPool, type RankResult } from "../engine/rank";
 import { writeGraphStore } from "../graph-store/write";
 import { ingestEdgeFile, type IngestResult } from "../ingest/ingest";
 import { topK } from "../output/rank-order";
@@ -74,6 +74,24 @@ export async function rankCommand(file: string, o: RankCommandOptions): Promise<
   const format = o.out ? scoreFormat(o.out) : null;
   const threads = o.threads ?? availableParallelism();
   const seedList = o.seeds ? await readSeeds(o.seeds) : null;
+  // The iteration's threads start now and get ready while the file is read.
+  const pool = new RankPool({ threads });
+  try {
+    return await rankWith(pool, file, o, t0, format, threads, seedList);
+  } finally {
+    await pool.close();
+  }
+}
+
+async function rankWith(
+  pool: RankPool,
+  file: string,
+  o: RankCommandOptions,
+  t0: number,
+  format: ScoreFormat | null,
+  threads: number,
+  seedList: Awaited<ReturnType<typeof readSeeds>> | null,
+): Promise<RankReport> {
 
   const parseBar = progressBar("ingest");
   let ingested: IngestResult;
@@ -115,13 +133,15 @@ export async function rankCommand(file: string, o: RankCommandOptions): Promise<
         maxIterations: o.maxIterations,
         dangling: o.dangling,
         teleport: seeds ? { kind: "seeds", seeds } : { kind: "uniform" },
-        // The graph's weights are the file's weights (--weighted) or the multiplicities of merged duplicates:
-        // either way they are part of the transition probabilities.
-        weighted: graph.weights !== null,
+        // The graph's weights are the file's weights (--weighted) or the multiplicities of merged duplicates (as
+        // weights or as repeated sources): either way they are part of the transition probabilities.
+        weighted: graph.weights !== null || graph.mergedEdges !== undefined,
         threads,
         shards: o.shards,
       },
-      { onIteration: (p) => iterBar.update(p.k, o.maxIterations, `k=${p.k} residual ${p.residual.toExponential(2)}`) },
+      {
+        pool,
+        onIteration: (p) => iterBar.update(p.k, o.maxIterations, `k=${p.k} residual ${p.residual.toExponential(2)}`) },
     );
   } finally {
     iterBar.stop();

@@ -1,9 +1,14 @@
 // Score columns in rank order as an Arrow table with file-level metadata.
-import { Field, Float64, makeData, RecordBatch, Schema, Struct, Table, Uint32, Uint64, Utf8, type Data, type DataType } from "apache-arrow";
+// apache-arrow is passed in, not imported: it loads only when an Arrow or Parquet file is asked for (a bundler would
+// hoist a static import of it to start-up).
+import type { Data, DataType, Table } from "apache-arrow";
 import type { NodeIds } from "../core/graph";
 
+type Arrow = typeof import("apache-arrow");
+
 /** Column `node_id`: the original ids permuted into `order`; uint64 for integer ids, utf8 for string ids. */
-function idColumn(ids: NodeIds, order: Uint32Array): Data<DataType> {
+function idColumn(arrow: Arrow, ids: NodeIds, order: Uint32Array): Data<DataType> {
+  const { makeData, Uint64, Utf8 } = arrow;
   const n = order.length;
   if (ids.kind === "integer") {
     const out = new BigUint64Array(n);
@@ -28,9 +33,10 @@ function idColumn(ids: NodeIds, order: Uint32Array): Data<DataType> {
 
 /**
  * Table { node_id: uint64 | utf8, score: float64, rank: uint32 } with rows in rank order (rank = row + 1).
- * @example scoreTable(ids, scores, rankOrder(scores), { iterations: "12" })
+ * @example scoreTable(await import("apache-arrow"), ids, scores, rankOrder(scores), { iterations: "12" })
  */
-export function scoreTable(ids: NodeIds, scores: Float64Array, order: Uint32Array, meta: Record<string, string>): Table {
+export function scoreTable(arrow: Arrow, ids: NodeIds, scores: Float64Array, order: Uint32Array, meta: Record<string, string>): Table {
+  const { Field, Float64, makeData, RecordBatch, Schema, Struct, Table, Uint32 } = arrow;
   const n = order.length;
   const score = new Float64Array(n);
   const rank = new Uint32Array(n);
@@ -38,7 +44,7 @@ export function scoreTable(ids: NodeIds, scores: Float64Array, order: Uint32Arra
     score[i] = scores[order[i]];
     rank[i] = i + 1;
   }
-  const id = idColumn(ids, order);
+  const id = idColumn(arrow, ids, order);
   const fields = [
     new Field("node_id", id.type, false),
     new Field("score", new Float64(), false),

@@ -3,6 +3,7 @@ import type { FileHandle } from "node:fs/promises";
 import type { NodeIds } from "../core/graph";
 import { writeAtomic } from "./atomic-file";
 import { rankOrder } from "./rank-order";
+import { scoreTable } from "./score-table";
 
 export type ScoreFormat = "csv" | "arrow" | "parquet";
 
@@ -112,8 +113,9 @@ export async function writeScores(
   const order = rankOrder(scores);
   if (format === "csv") return writeAtomic(path, (fh) => writeCsv(fh, ids, scores, order));
   // Arrow and Parquet load on first use: their modules take longer to start than a whole small CSV run.
-  const [{ tableToIPC }, { scoreTable }] = await Promise.all([import("apache-arrow"), import("./score-table")]);
-  const table = scoreTable(ids, scores, order, meta);
+  const arrow = await import("apache-arrow");
+  const { tableToIPC } = arrow;
+  const table = scoreTable(arrow, ids, scores, order, meta);
   if (format === "arrow") {
     const bytes = tableToIPC(table, "file");
     return writeAtomic(path, async (fh) => fh.writeFile(bytes));
