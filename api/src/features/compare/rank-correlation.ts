@@ -61,7 +61,9 @@ export function kendallTauB(x: Float64Array, y: Float64Array): number | null {
   if (n < 2) return null;
   // Items by (x, y) ascending from two radix passes: by y, then stably by x (rankOrder breaks ties by position).
   const byY = rankOrder(y);
-  const byXY = rankOrder(Float64Array.from(byY, (i) => x[i]));
+  const xByY = new Float64Array(n);
+  for (let p = 0; p < n; p++) xByY[p] = x[byY[p]];
+  const byXY = rankOrder(xByY);
   const xs = new Float64Array(n);
   const ys = new Float64Array(n);
   for (let p = 0; p < n; p++) {
@@ -87,11 +89,23 @@ export function kendallTauB(x: Float64Array, y: Float64Array): number | null {
   return (n0 - n1 - n2 + n3 - 2 * swaps) / denominator;
 }
 
+function isNonIncreasing(v: Float64Array): boolean {
+  for (let i = 1; i < v.length; i++) if (!(v[i] <= v[i - 1])) return false;
+  return true;
+}
+
+function identity(n: number): Uint32Array {
+  const out = new Uint32Array(n);
+  for (let i = 0; i < n; i++) out[i] = i;
+  return out;
+}
+
 /** Fractional ranks 1..n of `v` ascending; tied values share the mean of their positions. */
 export function averageRanks(v: Float64Array): Float64Array {
   const n = v.length;
-  // Descending radix order read backwards: position p of `desc` is ascending position n − 1 − p.
-  const desc = rankOrder(v);
+  // Descending order (ties by index) read backwards: position p of `desc` is ascending position n − 1 − p.
+  // Scores listed in rank order are already descending.
+  const desc = isNonIncreasing(v) ? identity(n) : rankOrder(v);
   const ranks = new Float64Array(n);
   let p = 0;
   while (p < n) {
