@@ -353,8 +353,15 @@ function compose(outer: Uint32Array, inner: Uint32Array): Uint32Array {
 function permuteIds(ids: NodeIds, perm: Uint32Array): NodeIds {
   const n = perm.length;
   if (ids.kind === "integer") {
+    // Word by word: reading a BigUint64Array element makes a BigInt.
     const out = new BigUint64Array(n);
-    for (let c = 0; c < n; c++) out[perm[c]] = ids.ids[c];
+    const from = new Uint32Array(ids.ids.buffer, ids.ids.byteOffset, 2 * n);
+    const to = new Uint32Array(out.buffer);
+    for (let c = 0; c < n; c++) {
+      const v = perm[c];
+      to[2 * v] = from[2 * c];
+      to[2 * v + 1] = from[2 * c + 1];
+    }
     return { kind: "integer", ids: out };
   }
   const lens = new Uint32Array(n + 1);

@@ -105,6 +105,8 @@ async function assembleRaw(parts: ParsedPart[], policy: CountPolicy, runner: Pas
   for (let x = 0; x <= maxId; x++) if (outRaw[x] !== 0 || inRaw[x] !== 0) n++;
   const map = sharedU32(maxId + 1);
   const ids = new BigUint64Array(n);
+  // Ids below 2^32 written as the low words of the 64-bit slots (no BigInt per node; the high words stay 0).
+  const idWords = new Uint32Array(ids.buffer);
   const out = new Uint32Array(n);
   const inn = new Uint32Array(n);
   const selfPerArc = policy.directed ? (policy.dropSelfLoops ? 1 : 0) : policy.dropSelfLoops ? 2 : 1;
@@ -124,7 +126,7 @@ async function assembleRaw(parts: ParsedPart[], policy: CountPolicy, runner: Pas
     }
     arcs += out[c];
     map[x] = c;
-    ids[c++] = BigInt(x);
+    idWords[2 * c++] = x;
   }
   return {
     n,

@@ -37,10 +37,13 @@ function putUint(buf: Uint8Array, at: number, v: number): number {
 }
 
 /** Appends a node id as a CSV field: integers as digits, strings quoted when they hold '"', ',', CR or LF. */
-function putId(buf: Uint8Array, at: number, ids: NodeIds, v: number): number {
+type CsvIds = { kind: "integer"; ids: BigUint64Array; words: Uint32Array } | Extract<NodeIds, { kind: "string" }>;
+
+function putId(buf: Uint8Array, at: number, ids: CsvIds, v: number): number {
   if (ids.kind === "integer") {
-    const id = ids.ids[v];
-    return id <= 0x1fffffffffffffn ? putUint(buf, at, Number(id)) : putAscii(buf, at, id.toString());
+    // Words, not the BigInt element: no allocation per row for ids below 2^53.
+    const hi = ids.words[2 * v + 1];
+    return hi < 0x200000 ? putUint(buf, at, hi * 4294967296 + ids.words[2 * v]) : putAscii(buf, at, ids.ids[v].toString());
   }
   const bytes = ids.bytes.subarray(ids.offsets[v], ids.offsets[v + 1]);
   let plain = true;
@@ -68,7 +71,11 @@ function putId(buf: Uint8Array, at: number, ids: NodeIds, v: number): number {
  * node_id,score,rank rows, formatted straight into bytes; the score is JavaScript's shortest round-trip decimal, so it
  * parses back to the same bits. String ids are checked to be UTF-8 once, up front.
  */
-async function writeCsv(fh: FileHandle, ids: NodeIds, scores: Float64Array, order: Uint32Array): Promise<void> {
+async function writeCsv(fh: FileHandle, nodeIds: NodeIds, scores: Float64Array, order: Uint32Array): Promise<void> {
+  const ids: CsvIds =
+    nodeIds.kind === "integer"
+      ? { ...nodeIds, words: new Uint32Array(nodeIds.ids.buffer, nodeIds.ids.byteOffset, 2 * nodeIds.ids.length) }
+      : nodeIds;
   if (ids.kind === "string") utf8.decode(ids.bytes);
   let longest = 0;
   if (ids.kind === "string") for (let v = 0; v + 1 < ids.offsets.length; v++) longest = Math.max(longest, ids.offsets[v + 1] - ids.offsets[v]);
