@@ -211,6 +211,13 @@ describe("score index round trip", () => {
     await expect(ScoreIndex.open(broken)).rejects.toBeInstanceOf(ScoreIndexFormatError);
     await writeFile(broken, Buffer.from(bytes.toString("latin1").replace('"version":1', '"version":9'), "latin1"));
     await expect(ScoreIndex.open(broken)).rejects.toThrow(/version 9/);
+    for (const json of ["null", '{"version":1,"kind":"string","n":2}']) {
+      const prefix = Buffer.alloc(16);
+      prefix.write("SPSCIDX\n", 0, "latin1");
+      prefix.writeUInt32LE(json.length, 8);
+      await writeFile(broken, Buffer.concat([prefix.subarray(0, 12), Buffer.from(json), Buffer.alloc(64)]));
+      await expect(ScoreIndex.open(broken)).rejects.toBeInstanceOf(ScoreIndexFormatError);
+    }
     expect((await readdir(dir)).filter((name) => name.endsWith(".tmp"))).toEqual([]);
   });
 });

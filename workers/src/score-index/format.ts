@@ -98,13 +98,15 @@ export function decodeHeader(json: Uint8Array, fileBytes: number): ScoreIndexHea
   } catch {
     throw new ScoreIndexFormatError("score index header is not JSON");
   }
+  if (typeof header !== "object" || header === null) throw new ScoreIndexFormatError("score index header is not an object");
   if (header.version !== SCORE_INDEX_VERSION) throw new ScoreIndexFormatError(`score index version ${String(header.version)}, expected ${SCORE_INDEX_VERSION}`);
   if (header.kind !== "integer" && header.kind !== "string") throw new ScoreIndexFormatError("score index id kind must be integer or string");
   if (!Number.isInteger(header.n) || header.n < 0) throw new ScoreIndexFormatError("score index node count must be an integer ≥ 0");
+  if (typeof header.digest !== "string" || !Array.isArray(header.histogram?.bins)) throw new ScoreIndexFormatError("score index header lacks its digest or histogram");
   const expected = sectionLayout(header.kind, header.n, header.sections?.idBytes?.bytes ?? 0);
   const start = dataStart(json.byteLength);
   for (const name of ["ids", "idBytes", "scores", "ranks", "order"] as const) {
-    const got = header.sections[name];
+    const got = header.sections?.[name];
     if (got?.offset !== expected[name].offset || got.bytes !== expected[name].bytes) throw new ScoreIndexFormatError(`score index section ${name} is misplaced`);
   }
   const end = start + expected.order.offset + expected.order.bytes;
