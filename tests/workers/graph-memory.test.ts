@@ -8,6 +8,7 @@ import { rank, RankPool } from "../../workers/src/engine/rank";
 import { loadGraphStore } from "../../workers/src/graph-store/load";
 import { writeGraphStore } from "../../workers/src/graph-store/write";
 import { ingestEdgeFile } from "../../workers/src/ingest/ingest";
+import { degreeStats } from "../../workers/src/ingest/stats";
 import { edgeList, TempFiles } from "../fixtures/edges/edge-files";
 import { l1, PARAMS, prng, sameBits } from "./rank-test-graphs";
 
@@ -52,6 +53,18 @@ describe("merged duplicates as repeated sources", () => {
     expect(asRepeats.graph.mergedEdges).toBe(asWeights.graph.m);
     for (const key of ["edges", "duplicates", "danglingNodes", "inDegree", "outDegree", "maxInDegree", "maxOutDegree"] as const) {
       expect(asRepeats.stats[key], key).toEqual(asWeights.stats[key]);
+    }
+    // The degrees the build hands over agree with a count over the finished graph, for every policy.
+    for (const r of [
+      asWeights,
+      asRepeats,
+      await ingestEdgeFile(path, { duplicates: "keep" }),
+      await ingestEdgeFile(path, { directed: false, selfLoops: "keep" }, { duplicateLayout: "repeats" }),
+    ]) {
+      const counted = degreeStats(r.graph);
+      expect(r.stats.inDegree).toEqual(counted.inDegree);
+      expect(r.stats.outDegree).toEqual(counted.outDegree);
+      expect([r.stats.maxInDegree, r.stats.maxOutDegree]).toEqual([counted.maxInDegree, counted.maxOutDegree]);
     }
     // Every merged edge appears as its multiplicity of repeated sources.
     const expanded = edgeList(asWeights.graph).flatMap((e) => {

@@ -136,6 +136,10 @@ export interface PassD {
   inOffsets: Uint32Array;
   fill: Uint32Array;
   sources: Uint32Array;
+  /** Out: in-degree of each target of the slice counting repeated sources once. */
+  inDistinct: Uint32Array;
+  /** Out, this slice's own: dupOut[u] += 1 for every repeat of source u in the slice's lists. */
+  dupOut: Uint32Array;
 }
 
 const INSERTION_SORT_MAX = 48;
@@ -168,14 +172,20 @@ export function scatterByTarget(t: PassD): number {
       if (ownU) sources[fill[u]++] = v;
     }
   }
-  const { inOffsets } = t;
+  const { inOffsets, inDistinct, dupOut } = t;
   let dups = 0;
   for (let v = vLo; v < vHi; v++) {
     const a = inOffsets[v];
     const b = inOffsets[v + 1];
+    const before = dups;
     if (b - a > INSERTION_SORT_MAX) {
       sources.subarray(a, b).sort();
-      for (let i = a + 1; i < b; i++) if (sources[i] === sources[i - 1]) dups++;
+      for (let i = a + 1; i < b; i++) {
+        if (sources[i] === sources[i - 1]) {
+          dups++;
+          dupOut[sources[i]]++;
+        }
+      }
     } else {
       for (let i = a + 1; i < b; i++) {
         const key = sources[i];
@@ -185,9 +195,13 @@ export function scatterByTarget(t: PassD): number {
           j--;
         }
         sources[j + 1] = key;
-        if (j >= a && sources[j] === key) dups++;
+        if (j >= a && sources[j] === key) {
+          dups++;
+          dupOut[key]++;
+        }
       }
     }
+    inDistinct[v] = b - a - (dups - before);
   }
   return dups;
 }

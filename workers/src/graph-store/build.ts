@@ -40,6 +40,12 @@ export interface BuildPolicy {
   heapMinBytes?: number;
 }
 
+/** In- and out-degree of every node (edges after the policies; merged duplicates once). */
+export interface NodeDegrees {
+  in: Uint32Array;
+  out: Uint32Array;
+}
+
 export interface BuildReport {
   /** Arcs after the self-loop policy and undirected doubling, before duplicates were merged. */
   arcs: number;
@@ -88,7 +94,7 @@ export async function buildGraph(
   input: CanonicalEdges,
   policy: BuildPolicy,
   runner: PassRunner = LOCAL_RUNNER,
-): Promise<{ graph: Graph; report: BuildReport }> {
+): Promise<{ graph: Graph; report: BuildReport; degrees?: NodeDegrees }> {
   const n = input.n;
   const dropSelf = policy.selfLoops === "drop";
   const both = !policy.directed;
@@ -144,25 +150,35 @@ export async function buildGraph(
     const fill = sharedU32(n);
     fill.set(inOffsets.subarray(0, n));
     const cuts = balancedCuts((v) => inOffsets[v], n, slices);
+    const inDistinct = sharedU32(n);
+    const dupOut = cuts.slice(0, -1).map(() => sharedU32(n));
     const dupsBySlice = await runner.run(
       cuts.slice(0, -1).map((vLo, k) => ({
         kind: "d" as const,
-        task: { segments, vLo, vHi: cuts[k + 1], dropSelf, both, inOffsets, fill, sources },
+        task: { segments, vLo, vHi: cuts[k + 1], dropSelf, both, inOffsets, fill, sources, inDistinct, dupOut: dupOut[k] },
       })),
     );
     const dups = dupsBySlice.reduce((a, b) => a + b, 0);
     const outWeight = finalF64(n);
+    const outDegree = new Uint32Array(n);
     for (let c = 0; c < n; c++) outWeight[perm[c]] = counts.out[c];
+    for (let u = 0; u < n; u++) {
+      let d = outWeight[u];
+      if (merge) for (const slice of dupOut) d -= slice[u];
+      outDegree[u] = d;
+    }
+    // Degrees of the graph as the policy defines it: merged duplicates count once.
+    const degrees = merge ? { in: inDistinct, out: outDegree } : { in: lengths(inOffsets), out: outDegree };
     const base = { n, inOffsets, outWeight, ids: ids(), ...(heap ? { heap } : {}) };
     if (!merge || dups === 0) {
-      return { graph: { ...base, m: arcs, sources, weights: null }, report: reportOf(0) };
+      return { graph: { ...base, m: arcs, sources, weights: null }, report: reportOf(0), degrees };
     }
     if (policy.duplicateLayout === "repeats" && 2 * dups <= arcs) {
-      return { graph: { ...base, m: arcs, sources, weights: null, mergedEdges: arcs - dups }, report: reportOf(dups) };
+      return { graph: { ...base, m: arcs, sources, weights: null, mergedEdges: arcs - dups }, report: reportOf(dups), degrees };
     }
     const weights = finalF64(arcs - dups);
     const m = mergeUnitArcs(n, inOffsets, sources, weights);
-    return { graph: { ...base, m, sources: sources.subarray(0, m), weights }, report: reportOf(arcs - m) };
+    return { graph: { ...base, m, sources: sources.subarray(0, m), weights }, report: reportOf(arcs - m), degrees };
   }
 
   // Weighted: pass A, sliced by canonical source ranges of about equal arc counts, then pass B.
@@ -235,6 +251,12 @@ export async function buildGraph(
     ...(heap ? { heap } : {}),
   };
   return { graph, report: reportOf(merged) };
+}
+
+function lengths(offsets: Uint32Array): Uint32Array {
+  const out = new Uint32Array(offsets.length - 1);
+  for (let v = 0; v < out.length; v++) out[v] = offsets[v + 1] - offsets[v];
+  return out;
 }
 
 /** Split items into `parts` runs of consecutive items with about equal total length (some runs may be empty). */

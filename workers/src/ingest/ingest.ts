@@ -153,7 +153,7 @@ export async function ingestEdgeFile(path: string, options: Partial<GraphOptions
       degrees: numbering.degrees,
     };
     const tNumbered = performance.now();
-    const { graph, report } = await buildGraph(
+    const { graph, report, degrees: built } = await buildGraph(
       canonical,
       {
       directed: opts.directed,
@@ -165,7 +165,7 @@ export async function ingestEdgeFile(path: string, options: Partial<GraphOptions
       },
       runner,
     );
-    const degrees = degreeStats(graph);
+    const degrees = degreeStats(graph, built);
     const tBuilt = performance.now();
 
     const warnings: string[] = [];

@@ -56,32 +56,20 @@ export function degreeHistogram(deg: Uint32Array): DegreeBin[] {
   return counts.map((count, k) => ({ min: k === 0 ? 0 : 2 ** (k - 1), max: k === 0 ? 0 : 2 ** k - 1, count }));
 }
 
-export function degreeStats(g: Graph): {
+/** Degree histograms of g; `given` (from the build) saves a pass over the edges. */
+export function degreeStats(
+  g: Graph,
+  given?: { in: Uint32Array; out: Uint32Array },
+): {
   inDegree: DegreeBin[];
   outDegree: DegreeBin[];
   maxInDegree: number;
   maxOutDegree: number;
   danglingNodes: number;
 } {
-  const inDeg = new Uint32Array(g.n);
-  const outDeg = new Uint32Array(g.n);
+  const { inDeg, outDeg } = given ? { inDeg: given.in, outDeg: given.out } : countDegrees(g);
   let maxIn = 0;
-  // A repeated source in an in-list (Graph.mergedEdges) is one edge: count it once.
-  const repeats = g.mergedEdges !== undefined;
-  for (let v = 0; v < g.n; v++) {
-    const lo = g.inOffsets[v];
-    const hi = g.inOffsets[v + 1];
-    let d = hi - lo;
-    if (repeats) {
-      for (let e = lo; e < hi; e++) {
-        if (e > lo && g.sources[e] === g.sources[e - 1]) d--;
-        else outDeg[g.sources[e]]++;
-      }
-    }
-    inDeg[v] = d;
-    if (d > maxIn) maxIn = d;
-  }
-  if (!repeats) for (let e = 0; e < g.m; e++) outDeg[g.sources[e]]++;
+  for (let v = 0; v < g.n; v++) if (inDeg[v] > maxIn) maxIn = inDeg[v];
   let maxOut = 0;
   let dangling = 0;
   for (let u = 0; u < g.n; u++) {
@@ -95,4 +83,25 @@ export function degreeStats(g: Graph): {
     maxOutDegree: maxOut,
     danglingNodes: dangling,
   };
+}
+
+function countDegrees(g: Graph): { inDeg: Uint32Array; outDeg: Uint32Array } {
+  const inDeg = new Uint32Array(g.n);
+  const outDeg = new Uint32Array(g.n);
+  // A repeated source in an in-list (Graph.mergedEdges) is one edge: count it once.
+  const repeats = g.mergedEdges !== undefined;
+  for (let v = 0; v < g.n; v++) {
+    const lo = g.inOffsets[v];
+    const hi = g.inOffsets[v + 1];
+    let d = hi - lo;
+    if (repeats) {
+      for (let e = lo; e < hi; e++) {
+        if (e > lo && g.sources[e] === g.sources[e - 1]) d--;
+        else outDeg[g.sources[e]]++;
+      }
+    }
+    inDeg[v] = d;
+  }
+  if (!repeats) for (let e = 0; e < g.m; e++) outDeg[g.sources[e]]++;
+  return { inDeg, outDeg };
 }
