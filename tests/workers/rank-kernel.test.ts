@@ -162,8 +162,11 @@ describe("planShards", () => {
       maxBlock = Math.max(maxBlock, g.inOffsets[end] - g.inOffsets[b] + NODE_COST * (end - b));
     }
     for (const c of cost) expect(Math.abs(c - total / 4)).toBeLessThanOrEqual(maxBlock);
+    // Neither an edge-only nor a node-only balance: the shards differ in both.
     const nodes = plan.map((s) => s.end - s.start);
-    expect(Math.max(...nodes) / Math.min(...nodes)).toBeGreaterThan(1.3);
+    const edges = plan.map((s) => s.edges);
+    expect(Math.max(...nodes) / Math.min(...nodes)).toBeGreaterThan(1.1);
+    expect(Math.max(...edges) / Math.min(...edges)).toBeGreaterThan(1.5);
   });
   it("returns no shard for the empty graph and rejects a bad count", () => {
     expect(planShards(Uint32Array.of(0), 0, 3, BLOCK_NODES)).toEqual([]);
