@@ -79,7 +79,13 @@ describe("merged duplicates as repeated sources", () => {
     const asWeights = (await ingestEdgeFile(path, {}, { duplicateLayout: "weights" })).graph;
     const asRepeats = (await ingestEdgeFile(path, {}, { duplicateLayout: "repeats" })).graph;
     const w1 = await rank(asWeights, weightedRun, { pool });
-    const w2 = await rank(asRepeats, weightedRun, { pool });
+    let shardEdges = 0;
+    const w2 = await rank(asRepeats, { ...weightedRun, shards: 3 }, {
+      pool,
+      onIteration: (p) => void (shardEdges = p.shards.reduce((sum, sh) => sum + sh.edges, 0)),
+    });
+    // Shards report the graph's edges, a repeated source once.
+    expect(shardEdges).toBe(asRepeats.graph.mergedEdges);
     // Same transition matrix; only the order of additions differs.
     expect(w2.iterations).toBe(w1.iterations);
     expect(l1(w1.scores, w2.scores)).toBeLessThan(1e-13);

@@ -58,3 +58,17 @@ export function planShards(inOffsets: Uint32Array, n: number, count: number, blo
   }
   return shards;
 }
+
+/**
+ * The plan with each range's edges counted once per distinct source in an in-list: on a graph that keeps merged
+ * duplicates as repeated sources (Graph.mergedEdges), the ranges then add up to the graph's edges.
+ */
+export function countMergedEdges(plan: ShardRange[], inOffsets: Uint32Array, sources: Uint32Array): ShardRange[] {
+  return plan.map((r) => {
+    let repeats = 0;
+    for (let v = r.start; v < r.end; v++) {
+      for (let e = inOffsets[v] + 1, end = inOffsets[v + 1]; e < end; e++) if (sources[e] === sources[e - 1]) repeats++;
+    }
+    return { ...r, edges: r.edges - repeats };
+  });
+}

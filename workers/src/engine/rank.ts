@@ -2,7 +2,7 @@
 import { availableParallelism } from "node:os";
 import type { Graph } from "../core/graph";
 import { combineBlocks } from "../core/pull-step-csr";
-import { planShards } from "../core/shard-plan";
+import { countMergedEdges, planShards } from "../core/shard-plan";
 import { stepScalars } from "../core/teleport";
 import { RankPool } from "./rank-pool";
 import { prepareRunState, type RunState } from "./run-state";
@@ -124,7 +124,9 @@ async function iterate(graph: Graph, params: RankParams, hooks: RankHooks, pool:
 
 async function steps(s: RunState, params: RankParams, hooks: RankHooks, pool: RankPool, t0: number): Promise<RankResult> {
   const runId = `${process.pid}-${++runCounter}`;
-  const plan = planShards(s.views.inOffsets, s.n, params.shards ?? pool.threads, s.blockNodes);
+  const balanced = planShards(s.views.inOffsets, s.n, params.shards ?? pool.threads, s.blockNodes);
+  // Balanced on the arcs the kernel reads; reported as the graph's edges.
+  const plan = s.repeats ? countMergedEdges(balanced, s.views.inOffsets, s.views.sources) : balanced;
   const shards: ShardState[] = plan.map((r) => ({ ...r, state: "queued", attempts: 0 }));
   const started = new SharedArrayBuffer(4 * Math.max(1, shards.length));
   const retry = hooks.retry ?? DEFAULT_RETRY;

@@ -22,6 +22,8 @@ export interface RunState {
   /** D_k and Σx_k of the current iterate, from block sums. */
   danglingMass: number;
   mass: number;
+  /** The in-lists keep merged duplicates as repeated sources (Graph.mergedEdges). */
+  repeats: boolean;
   /** Gives borrowed heap space back; the views must not be used after. */
   release(): void;
 }
@@ -159,6 +161,7 @@ export function prepareRunState(graph: Graph, inp: StateInputs): RunState {
     cur: 0,
     danglingMass: sums.dangling,
     mass: sums.sum,
+    repeats: graph.mergedEdges !== undefined && !distinct,
     release: () => loan?.release(),
   };
 }

@@ -106,7 +106,9 @@ export async function executeIngest(ctx: RunnerContext, claim: ClaimedIngest, jo
       const t0 = performance.now();
       let result;
       try {
-        result = await ingestEdgeFile(file, options, { onProgress: (p) => progress.update(p) });
+        // Repeated sources for merged duplicates: runs that use weights read 4 bytes per arc instead of 12, get the
+        // command line's bits, and unweighted runs fold the repeats into a copy of their own.
+        result = await ingestEdgeFile(file, options, { onProgress: (p) => progress.update(p), duplicateLayout: "repeats" });
       } catch (error) {
         if (error instanceof IngestError) throw new Rejected(rejectionOf(error, fileName), error.badLines);
         throw error;

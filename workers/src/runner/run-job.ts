@@ -4,7 +4,7 @@
 // write nothing final), needs attention (a shard failed past its retries), failed (anything else).
 import { RunParametersSchema } from "../../../api/contracts/runs";
 import { BLOCK_NODES, type Graph } from "../core/graph";
-import { planShards } from "../core/shard-plan";
+import { countMergedEdges, planShards } from "../core/shard-plan";
 import { rank, type FaultPlan, type RankResult } from "../engine/rank";
 import { GraphStore } from "../graph-store/load";
 import type { StoreMeta } from "../graph-store/format";
@@ -108,10 +108,12 @@ export async function executeRun(ctx: RunnerContext, claim: ClaimedRun, job: Job
       throw error;
     }
   }
-  // Weights in a graph read without a weight column are merged-duplicate multiplicities: always part of P.
-  const weighted = graph.weights !== null && (params.weighted || meta.stats.weighted !== true);
+  // Merged duplicates always weigh their multiplicity (as weights or as repeated sources); a weight column only when
+  // the run asks for it.
+  const weighted = (graph.weights !== null || graph.mergedEdges !== undefined) && (params.weighted || meta.stats.weighted !== true);
   const shards = params.shards === "auto" ? ctx.pool.threads : params.shards;
-  const plan = planShards(graph.inOffsets, graph.n, shards, BLOCK_NODES);
+  const balanced = planShards(graph.inOffsets, graph.n, shards, BLOCK_NODES);
+  const plan = graph.mergedEdges !== undefined ? countMergedEdges(balanced, graph.inOffsets, graph.sources) : balanced;
   await ctx.retry("trim shards", () => deleteShardsFrom(ctx.db, run.id, plan.length));
   rec.plan(plan, "running");
 
