@@ -85,7 +85,7 @@ describe("merged duplicates as repeated sources", () => {
       onIteration: (p) => void (shardEdges = p.shards.reduce((sum, sh) => sum + sh.edges, 0)),
     });
     // Shards report the graph's edges, a repeated source once.
-    expect(shardEdges).toBe(asRepeats.graph.mergedEdges);
+    expect(shardEdges).toBe(asRepeats.mergedEdges);
     // Same transition matrix; only the order of additions differs.
     expect(w2.iterations).toBe(w1.iterations);
     expect(l1(w1.scores, w2.scores)).toBeLessThan(1e-13);
