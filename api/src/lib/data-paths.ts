@@ -9,6 +9,7 @@ import type { ScoreFormat } from "../../contracts/runs";
  *   uploads/<tusId>              the uploaded bytes (tus file store), plus uploads/<tusId>.json (tus metadata)
  *   graphs/<graphId>/            the prepared graph store
  *   runs/<runId>/scores.csv      score files: node_id,score,rank in rank order; also scores.arrow and scores.parquet
+ *   runs/<runId>/scores.index    the score index (ids sorted, scores, ranks, histogram) for lookup and compare
  *   runs/<runId>/checkpoint-*    checkpoints (runner-owned)
  */
 export const DATA_LAYOUT = {
