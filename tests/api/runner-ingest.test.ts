@@ -60,7 +60,10 @@ describe("runner ingests", () => {
 
     const { graph: stored, meta } = await loadGraphStore(path.join(dataDir, graph.storagePath ?? ""));
     expect(stored.n).toBe(4);
-    expect(stored.m).toBe(4);
+    // The duplicate stays a repeated source: five arcs in the in-lists, four edges.
+    expect(stored.m).toBe(5);
+    expect(stored.mergedEdges).toBe(4);
+    expect(meta.mergedEdges).toBe(4);
     expect(meta.fingerprint).toBe(graph.fingerprint);
     expect(readFileSync(upload.file, "utf8")).toBe(text);
   });

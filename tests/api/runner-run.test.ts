@@ -105,11 +105,12 @@ describe("runner runs", () => {
     expect(csv.map((r) => r.rank)).toEqual(Array.from({ length: n }, (_, i) => i + 1));
     expect(Math.abs(csv.reduce((s, r) => s + r.score, 0) - 1)).toBeLessThan(1e-9);
 
-    // The runner's scores are exactly the engine's on the stored graph (merged duplicates count as weights).
+    // The runner's scores are exactly the engine's on the stored graph (merged duplicates count at their
+    // multiplicity, stored as repeated sources).
     const { graph: stored } = await loadGraphStore(path.join(dataDir, graph.storagePath ?? ""));
     const direct = await rank(
       stored,
-      { damping: 0.85, tolerance: 1e-10, maxIterations: 200, dangling: "teleport", teleport: { kind: "uniform" }, weighted: stored.weights !== null, threads: 1 },
+      { damping: 0.85, tolerance: 1e-10, maxIterations: 200, dangling: "teleport", teleport: { kind: "uniform" }, weighted: stored.weights !== null || stored.mergedEdges !== undefined, threads: 1 },
     );
     expect(direct.iterations).toBe(run.iterations);
     const byId = new Map(csv.map((r) => [r.id, r.score]));
