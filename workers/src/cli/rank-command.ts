@@ -160,7 +160,7 @@ async function rankWith(
       dangling: o.dangling,
       teleport: seeds ? "seeds" : "uniform",
       inputFingerprint: stats.fingerprint,
-    });
+    }, { rowPool: pool });
   }
   const tWritten = performance.now();
 

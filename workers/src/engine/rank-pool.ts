@@ -1,6 +1,7 @@
 // A pool of worker threads that run shard steps; one pool can serve many runs in turn.
 import { Piscina } from "piscina";
 import { pathToFileURL } from "node:url";
+import type { CsvRowPool, CsvRowsTask } from "../output/csv-rows";
 import type { ShardDone, ShardTask } from "../tasks/rank-shard-task";
 import { bundledWorker } from "../tasks/ts-worker";
 
@@ -8,7 +9,7 @@ import { bundledWorker } from "../tasks/ts-worker";
 const EXT = import.meta.url.endsWith(".ts") ? ".ts" : ".js";
 const TASK_FILE = new URL(`../tasks/rank-shard${EXT}`, import.meta.url).href;
 
-export class RankPool {
+export class RankPool implements CsvRowPool {
   readonly threads: number;
   #pool: Piscina<ShardTask, ShardDone>;
   #busy = 0;
@@ -37,6 +38,11 @@ export class RankPool {
     } finally {
       this.#busy--;
     }
+  }
+
+  /** CSV score rows formatted on a pool thread (the pool is idle once a run has ended). */
+  async formatCsvRows(task: CsvRowsTask): Promise<number> {
+    return this.#pool.run(task as unknown as ShardTask, { name: "formatCsvRows" }) as unknown as Promise<number>;
   }
 
   stats(): { threads: number; busy: number } {

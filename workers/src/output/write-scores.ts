@@ -2,100 +2,70 @@
 import type { FileHandle } from "node:fs/promises";
 import type { NodeIds } from "../core/graph";
 import { writeAtomic } from "./atomic-file";
+import { csvIds, CSV_HEADER, formatRows, rowBound, type CsvRowPool } from "./csv-rows";
 import { rankOrder } from "./rank-order";
 import { scoreTable } from "./score-table";
 
 export type ScoreFormat = "csv" | "arrow" | "parquet";
 
-/** Bytes buffered before a write; a row is at most a field of maxFieldBytes (quoted, doubled) plus 48. */
-const CSV_BUFFER_BYTES = 1 << 20;
+/** Rows per formatting piece: big enough to amortise a message, small enough to keep threads and disk busy. */
+const PIECE_ROWS = 32_768;
+const PIECE_BYTES = 4 << 20;
 const utf8 = new TextDecoder("utf-8", { fatal: true });
-const QUOTE = 0x22;
-const COMMA = 0x2c;
-const NEWLINE = 0x0a;
-
-/** Appends text of single-byte characters (digits, '.', 'e', '-', '+') at `at`; returns the new end. */
-function putAscii(buf: Uint8Array, at: number, text: string): number {
-  for (let i = 0; i < text.length; i++) buf[at++] = text.charCodeAt(i);
-  return at;
-}
-
-/** Appends the decimal digits of a non-negative integer below 2^53. */
-function putUint(buf: Uint8Array, at: number, v: number): number {
-  if (v < 10) {
-    buf[at] = 48 + v;
-    return at + 1;
-  }
-  let digits = 0;
-  for (let t = v; t >= 1; t = Math.floor(t / 10)) digits++;
-  for (let i = at + digits - 1; i >= at; i--) {
-    const q = Math.floor(v / 10);
-    buf[i] = 48 + (v - q * 10);
-    v = q;
-  }
-  return at + digits;
-}
-
-/** Appends a node id as a CSV field: integers as digits, strings quoted when they hold '"', ',', CR or LF. */
-type CsvIds = { kind: "integer"; ids: BigUint64Array; words: Uint32Array } | Extract<NodeIds, { kind: "string" }>;
-
-function putId(buf: Uint8Array, at: number, ids: CsvIds, v: number): number {
-  if (ids.kind === "integer") {
-    // Words, not the BigInt element: no allocation per row for ids below 2^53.
-    const hi = ids.words[2 * v + 1];
-    return hi < 0x200000 ? putUint(buf, at, hi * 4294967296 + ids.words[2 * v]) : putAscii(buf, at, ids.ids[v].toString());
-  }
-  const bytes = ids.bytes.subarray(ids.offsets[v], ids.offsets[v + 1]);
-  let plain = true;
-  for (let i = 0; i < bytes.length; i++) {
-    const b = bytes[i];
-    if (b === QUOTE || b === COMMA || b === NEWLINE || b === 0x0d) {
-      plain = false;
-      break;
-    }
-  }
-  if (plain) {
-    buf.set(bytes, at);
-    return at + bytes.length;
-  }
-  buf[at++] = QUOTE;
-  for (let i = 0; i < bytes.length; i++) {
-    if (bytes[i] === QUOTE) buf[at++] = QUOTE;
-    buf[at++] = bytes[i];
-  }
-  buf[at++] = QUOTE;
-  return at;
-}
 
 /**
- * node_id,score,rank rows, formatted straight into bytes; the score is JavaScript's shortest round-trip decimal, so it
- * parses back to the same bits. String ids are checked to be UTF-8 once, up front.
+ * node_id,score,rank rows in rank order, formatted into reused buffers: here, or on the pool's threads (pieces in
+ * flight while earlier ones are written). String ids are checked to be UTF-8 once, up front.
  */
-async function writeCsv(fh: FileHandle, nodeIds: NodeIds, scores: Float64Array, order: Uint32Array): Promise<void> {
-  const ids: CsvIds =
-    nodeIds.kind === "integer"
-      ? { ...nodeIds, words: new Uint32Array(nodeIds.ids.buffer, nodeIds.ids.byteOffset, 2 * nodeIds.ids.length) }
-      : nodeIds;
-  if (ids.kind === "string") utf8.decode(ids.bytes);
-  let longest = 0;
-  if (ids.kind === "string") for (let v = 0; v + 1 < ids.offsets.length; v++) longest = Math.max(longest, ids.offsets[v + 1] - ids.offsets[v]);
-  const rowMax = 2 * longest + 64;
-  const buf = new Uint8Array(Math.max(CSV_BUFFER_BYTES, 2 * rowMax));
-  let at = putAscii(buf, 0, "node_id,score,rank\n");
-  for (let i = 0; i < order.length; i++) {
-    if (at + rowMax > buf.length) {
-      await fh.write(buf, 0, at);
-      at = 0;
+async function writeCsv(fh: FileHandle, nodeIds: NodeIds, scores: Float64Array, order: Uint32Array, pool?: CsvRowPool): Promise<void> {
+  if (nodeIds.kind === "string") utf8.decode(nodeIds.bytes);
+  let ids = csvIds(nodeIds);
+  const bound = rowBound(ids);
+  const pieceRows = Math.max(1, Math.min(PIECE_ROWS, Math.floor(PIECE_BYTES / bound)));
+  await fh.write(CSV_HEADER);
+  const n = order.length;
+  if (!pool || n < 2 * pieceRows) {
+    const out = new Uint8Array(Math.min(n, pieceRows) * bound);
+    for (let from = 0; from < n; from += pieceRows) {
+      const to = Math.min(n, from + pieceRows);
+      await fh.write(out, 0, formatRows(ids, scores, order, from, to, out));
     }
-    const v = order[i];
-    at = putId(buf, at, ids, v);
-    buf[at++] = COMMA;
-    at = putAscii(buf, at, String(scores[v]));
-    buf[at++] = COMMA;
-    at = putUint(buf, at, i + 1);
-    buf[at++] = NEWLINE;
+    return;
   }
-  if (at > 0) await fh.write(buf, 0, at);
+  ids = ids.kind === "integer" ? { kind: "integer", words: sharedCopy(ids.words) } : { kind: "string", bytes: sharedCopy(ids.bytes), offsets: sharedCopy(ids.offsets) };
+  const task = { ids, scores: sharedCopy(scores), order: sharedCopy(order) };
+  // A ring of shared output buffers, each reused once its rows are on disk.
+  const spare: SharedArrayBuffer[] = [];
+  const inFlight: Array<{ out: SharedArrayBuffer; bytes: Promise<number> }> = [];
+  let next = 0;
+  const launch = () => {
+    const from = next * pieceRows;
+    const to = Math.min(n, from + pieceRows);
+    next++;
+    const out = spare.pop() ?? new SharedArrayBuffer(pieceRows * bound);
+    inFlight.push({ out, bytes: pool.formatCsvRows({ ...task, from, to, out }) });
+  };
+  const pieces = Math.ceil(n / pieceRows);
+  while (next < pieces && inFlight.length < 2 * pool.threads) launch();
+  try {
+    while (inFlight.length > 0) {
+      const { out, bytes } = inFlight.shift() as (typeof inFlight)[number];
+      await fh.write(new Uint8Array(out, 0, await bytes));
+      spare.push(out);
+      if (next < pieces) launch();
+    }
+  } catch (error) {
+    for (const piece of inFlight) piece.bytes.catch(() => {});
+    throw error;
+  }
+}
+
+function sharedCopy<T extends Uint8Array | Uint32Array | Float64Array>(a: T): T {
+  const Ctor = a.constructor as new (buffer: SharedArrayBuffer) => T;
+  const copy = new Ctor(new SharedArrayBuffer(a.byteLength));
+  // A loop, not set(): copying into shared memory with set() takes a slow path.
+  for (let i = 0; i < a.length; i++) copy[i] = a[i];
+  return copy;
 }
 
 function idCount(ids: NodeIds): number {
@@ -104,7 +74,8 @@ function idCount(ids: NodeIds): number {
 
 /**
  * Writes the score file at `path` (temp file + rename). Rows in rank order: rank 1 = highest score, ties by dense
- * id. Arrow and Parquet carry `meta` as file-level key/value metadata; CSV is the bare three columns.
+ * id. Arrow and Parquet carry `meta` as file-level key/value metadata; CSV is the bare three columns, formatted on
+ * `rowPool`'s threads when one is given.
  * @example await writeScores("out/scores.parquet", "parquet", graph.ids, result.scores, { iterations: "12" })
  */
 export async function writeScores(
@@ -113,12 +84,13 @@ export async function writeScores(
   ids: NodeIds,
   scores: Float64Array,
   meta: Record<string, string>,
+  options: { rowPool?: CsvRowPool } = {},
 ): Promise<void> {
   if (idCount(ids) !== scores.length) {
     throw new RangeError(`ids must name ${scores.length} nodes, one per score. Value: ${idCount(ids)}`);
   }
   const order = rankOrder(scores);
-  if (format === "csv") return writeAtomic(path, (fh) => writeCsv(fh, ids, scores, order));
+  if (format === "csv") return writeAtomic(path, (fh) => writeCsv(fh, ids, scores, order, options.rowPool));
   // Arrow and Parquet load on first use: their modules take longer to start than a whole small CSV run.
   const arrow = await import("apache-arrow");
   const { tableToIPC } = arrow;

@@ -1,0 +1,65 @@
+// CSV score files formatted on pool threads are the same bytes as those formatted on the calling thread.
+import { mkdtemp, readFile, rm } from "node:fs/promises";
+import { tmpdir } from "node:os";
+import { join } from "node:path";
+import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import type { NodeIds } from "../../workers/src/core/graph";
+import { RankPool } from "../../workers/src/engine/rank";
+import { writeScores } from "../../workers/src/output/write-scores";
+import { prng } from "./rank-test-graphs";
+
+let dir: string;
+const pool = new RankPool({ threads: 2 });
+beforeAll(async () => {
+  dir = await mkdtemp(join(tmpdir(), "stillpoint-csv-pool-"));
+});
+afterAll(async () => {
+  await pool.close();
+  await rm(dir, { recursive: true, force: true });
+});
+
+const N = 150_000; // several pieces of rows per thread
+
+function scores(seed: number): Float64Array {
+  const rnd = prng(seed);
+  const s = Float64Array.from({ length: N }, () => rnd() * (rnd() < 0.05 ? 1e-300 : 1));
+  for (let i = 0; i < N; i += 97) s[i] = s[(i * 7) % N]; // ties
+  s[3] = 0;
+  return s;
+}
+
+async function both(ids: NodeIds, s: Float64Array): Promise<[string, string]> {
+  const here = join(dir, `here-${ids.kind}.csv`);
+  const threads = join(dir, `threads-${ids.kind}.csv`);
+  await writeScores(here, "csv", ids, s, {});
+  await writeScores(threads, "csv", ids, s, {}, { rowPool: pool });
+  return [await readFile(here, "utf8"), await readFile(threads, "utf8")];
+}
+
+describe("CSV rows on pool threads", () => {
+  it("match the calling thread's bytes for integer ids up to 2^64 - 1", async () => {
+    const rnd = prng(3);
+    const ids = new BigUint64Array(N);
+    for (let i = 0; i < N; i++) ids[i] = i % 5 === 0 ? 2n ** 64n - 1n - BigInt(i) : BigInt(Math.floor(rnd() * 2 ** 53));
+    const [here, threads] = await both({ kind: "integer", ids }, scores(1));
+    expect(threads).toBe(here);
+    const lines = here.trimEnd().split("\n");
+    expect(lines).toHaveLength(N + 1);
+    expect(lines[0]).toBe("node_id,score,rank");
+    expect(lines.some((l) => l.startsWith("18446744073709551615,"))).toBe(true);
+    expect(lines[N].endsWith(`,${N}`)).toBe(true);
+  });
+
+  it("match for string ids that need quoting", async () => {
+    const names = Array.from({ length: N }, (_, i) => (i % 11 === 0 ? `page "${i}", kestrel` : `isle-${i}-ø`));
+    const enc = new TextEncoder();
+    const parts = names.map((n) => enc.encode(n));
+    const offsets = new Uint32Array(N + 1);
+    parts.forEach((p, i) => (offsets[i + 1] = offsets[i] + p.length));
+    const bytes = new Uint8Array(offsets[N]);
+    parts.forEach((p, i) => bytes.set(p, offsets[i]));
+    const [here, threads] = await both({ kind: "string", bytes, offsets }, scores(2));
+    expect(threads).toBe(here);
+    expect(here).toContain('"page ""0"", kestrel",');
+  });
+});
