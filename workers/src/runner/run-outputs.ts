@@ -29,7 +29,7 @@ export async function writeRunOutputs(
   const files: RunOutputs["files"] = [];
   for (const format of SCORE_FORMATS) {
     const file = path.join(abs, SCORE_FILE_NAMES[format]);
-    await writeScores(file, format, ids, scores, meta);
+    await writeScores(file, format, ids, scores, meta, { rowPool: ctx.pool });
     files.push({ format, path: scoreRelPath(run.id, format), bytes: (await stat(file)).size });
   }
   // Lookup, compare and the histogram read this; the API rebuilds it from the Arrow file if it is ever missing.
