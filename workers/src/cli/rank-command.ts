@@ -44,7 +44,8 @@ export interface RankReport {
   errorBound: number;
   converged: boolean;
   stopReason: RankResult["stopReason"];
-  timings: { parse: number; build: number; iterate: number; perIteration: number; write: number; total: number };
+  /** perIteration is the mean over the steps, perIterationMedian their median. */
+  timings: { parse: number; build: number; iterate: number; perIteration: number; perIterationMedian: number; write: number; total: number };
   peakRssBytes: number;
   /** Bytes of the prepared graph's arrays (in-offsets, sources, weights, out-weights; ids not counted). */
   graphBytes: number;
@@ -179,6 +180,7 @@ async function rankWith(
       build: round(ingested.timings.numberMs + ingested.timings.buildMs),
       iterate: round(tIterated - tRank),
       perIteration: round(result.timings.perIterationMs),
+      perIterationMedian: round(result.timings.medianIterationMs),
       write: round(tWritten - tIterated),
       total: round(tWritten - t0),
     },

@@ -29,7 +29,8 @@ export class SharedHeap {
   readonly capacity: number;
   #top = BASE;
   #lent: number | null = null;
-  #used = false;
+  /** End of the space earlier loans wrote to: only that much needs zeroing for the next one. */
+  #dirtyEnd = 0;
 
   private constructor(capacity: number) {
     const pages = Math.ceil((BASE + capacity) / WASM_PAGE);
@@ -73,12 +74,13 @@ export class SharedHeap {
     if (this.#lent !== null) return null;
     const mark = this.#top;
     this.#lent = mark;
-    if (this.#used) new Uint8Array(this.buffer, mark, this.capacity - mark).fill(0);
-    this.#used = true;
+    // Zero what earlier loans wrote, not the whole reserve: untouched pages are zero and cost no memory.
+    if (this.#dirtyEnd > mark) new Uint8Array(this.buffer, mark, this.#dirtyEnd - mark).fill(0);
     return {
       heap: this,
       release: () => {
         if (this.#lent !== mark) return;
+        this.#dirtyEnd = Math.max(this.#dirtyEnd, this.#top);
         this.#top = mark;
         this.#lent = null;
       },

@@ -58,7 +58,9 @@ export interface RankResult {
   /** residuals[i] and danglingMass[i] belong to iteration (first k of this call) + i. */
   residuals: number[];
   danglingMass: number[];
-  timings: { setupMs: number; iterateMs: number; perIterationMs: number };
+  /** perIterationMs is the mean over this call's steps, medianIterationMs their median (the first step also faults in
+   *  the new iterate's pages). */
+  timings: { setupMs: number; iterateMs: number; perIterationMs: number; medianIterationMs: number };
   /** The step kernel that ran. */
   kernel?: "js" | "wasm";
   failure?: { shard: number; attempts: number; lastError: string };
@@ -134,6 +136,8 @@ async function steps(s: RunState, params: RankParams, hooks: RankHooks, pool: Ra
   const alpha = params.damping;
   const residuals: number[] = [];
   const danglingMass: number[] = [];
+  const stepMs: number[] = [];
+  let stepStarted = 0;
   let k = hooks.resumeFrom?.k ?? 0;
   let residual = Infinity;
   let stopReason: RankResult["stopReason"] = "iteration-cap";
@@ -151,6 +155,7 @@ async function steps(s: RunState, params: RankParams, hooks: RankHooks, pool: Ra
       break;
     }
     const tIter = performance.now();
+    stepStarted = tIter;
     const scalars = stepScalars(alpha, s.danglingMass, s.n, s.seeded, params.dangling);
     for (const st of shards) {
       st.state = "queued";
@@ -183,6 +188,7 @@ async function steps(s: RunState, params: RankParams, hooks: RankHooks, pool: Ra
     k++;
     residuals.push(residual);
     danglingMass.push(sums.dangling);
+    stepMs.push(performance.now() - stepStarted);
     await hooks.onIteration?.({
       k,
       residual,
@@ -209,8 +215,15 @@ async function steps(s: RunState, params: RankParams, hooks: RankHooks, pool: Ra
     stopReason,
     residuals,
     danglingMass,
-    timings: { setupMs: t1 - t0, iterateMs: t2 - t1, perIterationMs: steps ? (t2 - t1) / steps : 0 },
+    timings: { setupMs: t1 - t0, iterateMs: t2 - t1, perIterationMs: steps ? (t2 - t1) / steps : 0, medianIterationMs: median(stepMs) },
     kernel: s.kernel,
     ...(failure ? { failure } : {}),
   };
+}
+
+function median(xs: number[]): number {
+  if (xs.length === 0) return 0;
+  const s = [...xs].sort((a, b) => a - b);
+  const mid = s.length >> 1;
+  return s.length % 2 ? s[mid] : (s[mid - 1] + s[mid]) / 2;
 }

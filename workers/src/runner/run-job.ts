@@ -142,7 +142,7 @@ export async function executeRun(ctx: RunnerContext, claim: ClaimedRun, job: Job
       stopReason: converged ? "converged" : "iteration-cap",
       residuals: [],
       danglingMass: [],
-      timings: { setupMs: 0, iterateMs: 0, perIterationMs: 0 },
+      timings: { setupMs: 0, iterateMs: 0, perIterationMs: 0, medianIterationMs: 0 },
     };
   } else {
     try {
