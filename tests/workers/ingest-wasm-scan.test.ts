@@ -1,11 +1,11 @@
 // The WebAssembly integer-line scanner against the JS one: the committed binary is what its source compiles to, and on
 // every kind of line (taken or refused) both stop at the same byte with the same ids, weights and counts.
-import asc from "assemblyscript/asc";
 import { readFile } from "node:fs/promises";
 import { afterAll, describe, expect, it } from "vitest";
 import { scanIntegerLines, type ScanState } from "../../workers/src/ingest/fast-scan";
 import { ingestEdgeFile } from "../../workers/src/ingest/ingest";
 import { scanModule, WasmScanner } from "../../workers/src/ingest/wasm-scan";
+import { compileAssembly } from "../fixtures/assembly";
 import { edgeList, TempFiles } from "../fixtures/edges/edge-files";
 import { prng } from "./rank-test-graphs";
 
@@ -14,15 +14,8 @@ afterAll(() => files.remove());
 
 describe("committed scanner binary", () => {
   it("matches a fresh compile of workers/assembly/scan-lines.ts (npm run build:wasm)", async () => {
-    const out = new Map<string, Uint8Array>();
-    const { error, stderr } = await asc.main(
-      ["workers/assembly/scan-lines.ts", "--config", "workers/assembly/asconfig.json", "--target", "scan"],
-      { writeFile: (name, contents) => void out.set(name, typeof contents === "string" ? new TextEncoder().encode(contents) : contents) },
-    );
-    expect(error, String(stderr)).toBeNull();
-    const fresh = [...out.entries()].find(([name]) => name.endsWith(".wasm"))?.[1];
-    expect(fresh).toBeDefined();
-    expect(Buffer.compare(Buffer.from(fresh as Uint8Array), await readFile(new URL("../../workers/assembly/scan-lines.wasm", import.meta.url)))).toBe(0);
+    const fresh = await compileAssembly("workers/assembly/scan-lines.ts", "scan");
+    expect(Buffer.compare(Buffer.from(fresh), await readFile(new URL("../../workers/assembly/scan-lines.wasm", import.meta.url)))).toBe(0);
   });
 });
 

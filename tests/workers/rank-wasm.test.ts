@@ -1,5 +1,4 @@
 // The WebAssembly step kernel: the committed binary is what the source compiles to, and it gives the JS kernel's bits.
-import asc from "assemblyscript/asc";
 import { readFile } from "node:fs/promises";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { BLOCK_NODES } from "../../workers/src/core/graph";
@@ -8,19 +7,13 @@ import { BLOCK_SLOTS } from "../../workers/src/core/pull-step-csr";
 import { teleportVector } from "../../workers/src/core/teleport";
 import { rank, RankPool, type RankParams } from "../../workers/src/engine/rank";
 import { instantiateStep, WASM_FILE, wasmStep } from "../../workers/src/tasks/wasm-step";
+import { compileAssembly } from "../fixtures/assembly";
 import { applyPolicies, PARAMS, randomEdges, sameBits, toGraph } from "./rank-test-graphs";
 
 describe("committed wasm binary", () => {
   it("matches a fresh compile of workers/assembly/pull-step.ts (npm run build:wasm)", async () => {
-    const out = new Map<string, Uint8Array>();
-    const { error, stderr } = await asc.main(
-      ["workers/assembly/pull-step.ts", "--config", "workers/assembly/asconfig.json", "--target", "release"],
-      { writeFile: (name, contents) => void out.set(name, typeof contents === "string" ? new TextEncoder().encode(contents) : contents) },
-    );
-    expect(error, String(stderr)).toBeNull();
-    const fresh = [...out.entries()].find(([name]) => name.endsWith(".wasm"))?.[1];
-    expect(fresh).toBeDefined();
-    expect(Buffer.compare(Buffer.from(fresh as Uint8Array), await readFile(WASM_FILE))).toBe(0);
+    const fresh = await compileAssembly("workers/assembly/pull-step.ts", "release");
+    expect(Buffer.compare(Buffer.from(fresh), await readFile(WASM_FILE))).toBe(0);
   });
 });
 

@@ -11,12 +11,11 @@ const RADIX = 1 << RADIX_BITS;
 export function rankOrder(scores: Float64Array): Uint32Array {
   const n = scores.length;
   const words = new Uint32Array(scores.buffer, scores.byteOffset, n * 2);
-  let hi = new Uint32Array(n);
-  let lo = new Uint32Array(n);
-  let idx = new Uint32Array(n);
+  const hi = new Uint32Array(n);
+  const lo = new Uint32Array(n);
   for (let i = 0; i < n; i++) {
     let h = words[2 * i + 1];
-    let l = words[2 * i];
+    const l = words[2 * i];
     if (h === 0x80000000 && l === 0) h = 0;
     // Descending key = complement of the ascending float key: negatives keep their bits, positives flip all but sign.
     if (h & 0x80000000) {
@@ -26,10 +25,23 @@ export function rankOrder(scores: Float64Array): Uint32Array {
       hi[i] = (h ^ 0x7fffffff) >>> 0;
       lo[i] = ~l >>> 0;
     }
-    idx[i] = i;
   }
-  let hi2 = new Uint32Array(n);
-  let lo2 = new Uint32Array(n);
+  return radixOrder64(hi, lo);
+}
+
+/**
+ * order[s] = index of the s-th smallest 64-bit key (hi[i], lo[i]), ties by ascending index: stable LSD radix sort
+ * over four 16-bit digits, O(n). Consumes hi and lo (they are reordered in place of scratch).
+ * @example radixOrder64(Uint32Array.of(0, 0), Uint32Array.of(5, 2)) // [1, 0]
+ */
+export function radixOrder64(hiKeys: Uint32Array, loKeys: Uint32Array): Uint32Array {
+  const n = hiKeys.length;
+  let hi: Uint32Array = hiKeys;
+  let lo: Uint32Array = loKeys;
+  let idx = new Uint32Array(n);
+  for (let i = 0; i < n; i++) idx[i] = i;
+  let hi2: Uint32Array = new Uint32Array(n);
+  let lo2: Uint32Array = new Uint32Array(n);
   let idx2 = new Uint32Array(n);
   const count = new Uint32Array(RADIX);
   for (let pass = 0; pass < 4; pass++) {

@@ -1,5 +1,6 @@
 // Original ids in sorted order: integers ascending as unsigned 64-bit numbers, strings by their UTF-8 bytes.
 import type { NodeIds } from "../core/graph";
+import { radixOrder64 } from "../output/rank-order";
 
 /**
  * Byte-wise order of a[a0..a1) and b[b0..b1): negative, zero or positive (a shorter prefix sorts first).
@@ -23,48 +24,17 @@ export function compareU64(hiA: number, loA: number, hiB: number, loB: number): 
   return 0;
 }
 
-const RADIX_BITS = 16;
-const RADIX = 1 << RADIX_BITS;
-
-/** perm[s] = index of the s-th smallest value: LSD radix sort over four 16-bit digits, keys carried along. O(n). */
+/** perm[s] = index of the s-th smallest value (radix sort over the two 32-bit words). O(n). */
 function sortU64(values: BigUint64Array): Uint32Array {
   const n = values.length;
   const words = new Uint32Array(values.buffer, values.byteOffset, n * 2);
-  let lo = new Uint32Array(n);
-  let hi = new Uint32Array(n);
-  let idx = new Uint32Array(n);
+  const lo = new Uint32Array(n);
+  const hi = new Uint32Array(n);
   for (let i = 0; i < n; i++) {
     lo[i] = words[2 * i];
     hi[i] = words[2 * i + 1];
-    idx[i] = i;
   }
-  let lo2 = new Uint32Array(n);
-  let hi2 = new Uint32Array(n);
-  let idx2 = new Uint32Array(n);
-  const count = new Uint32Array(RADIX);
-  for (let pass = 0; pass < 4; pass++) {
-    const src = pass < 2 ? lo : hi;
-    const shift = (pass & 1) * RADIX_BITS;
-    count.fill(0);
-    for (let i = 0; i < n; i++) count[(src[i] >>> shift) & (RADIX - 1)]++;
-    if (n > 0 && count[(src[0] >>> shift) & (RADIX - 1)] === n) continue;
-    let sum = 0;
-    for (let d = 0; d < RADIX; d++) {
-      const c = count[d];
-      count[d] = sum;
-      sum += c;
-    }
-    for (let i = 0; i < n; i++) {
-      const at = count[(src[i] >>> shift) & (RADIX - 1)]++;
-      lo2[at] = lo[i];
-      hi2[at] = hi[i];
-      idx2[at] = idx[i];
-    }
-    [lo, lo2] = [lo2, lo];
-    [hi, hi2] = [hi2, hi];
-    [idx, idx2] = [idx2, idx];
-  }
-  return idx;
+  return radixOrder64(hi, lo);
 }
 
 const SMALL = 6;
