@@ -127,6 +127,11 @@ describe("the graph's shared heap", () => {
     const plainReference = await rank(plain, plainRun, { pool, kernel: "js" });
     for (const r of [first, second, third, fourth]) expect(sameBits(r.scores, reference.scores)).toBe(true);
     expect(sameBits(fifth.scores, plainReference.scores)).toBe(true);
+    // Every run gave its loan back, a refused one too.
+    await expect(rank(onHeap, weightedRun, { pool, resumeFrom: { k: 3, x: new Float64Array(5) } })).rejects.toThrow(/resumeFrom/);
+    const loan = onHeap.heap?.lend();
+    expect(loan).toBeTruthy();
+    loan?.release();
   });
 
   it("survives the graph store: repeated sources and the heap come back on load", async () => {

@@ -114,6 +114,9 @@ export function prepareRunState(graph: Graph, inp: StateInputs): RunState {
   const useWeights = inp.weighted && graph.weights !== null;
   // Unweighted run on a graph keeping merged duplicates as repeated sources: each edge once, from a copy.
   const distinct = !inp.weighted && graph.mergedEdges !== undefined;
+  // Everything that can refuse the inputs runs before a loan is taken, so a refusal never keeps the heap lent.
+  if (inp.start && inp.start.length !== n) throw new RangeError(`resumeFrom.x.length must be n = ${n}. Value: ${inp.start.length}`);
+  const teleport = inp.seeds ? teleportVector(n, inp.seeds) : null;
   const { heap, loan } = runMemory(graph, inp.kernel, useWeights, distinct);
   const arena = new Arena(heap);
   const { inOffsets, sources } = distinct
@@ -122,12 +125,11 @@ export function prepareRunState(graph: Graph, inp: StateInputs): RunState {
   const weights = useWeights && graph.weights ? arena.shareF64(graph.weights) : null;
   // Unweighted run on a weighted graph: W_u is the out-edge count, not the stored out-weight.
   const outWeight = (graph.weights !== null && !useWeights) || distinct ? outDegree(sources, arena.f64(n)) : arena.shareF64(graph.outWeight);
-  const tel = inp.seeds ? arena.shareF64(teleportVector(n, inp.seeds)) : null;
+  const tel = teleport ? arena.shareF64(teleport) : null;
   const x: [Float64Array, Float64Array] = [arena.f64(n), arena.f64(n)];
   const c: [Float64Array, Float64Array] = [arena.f64(n), arena.f64(n)];
   const blockSums = arena.f64(blocks * BLOCK_SLOTS);
   if (inp.start) {
-    if (inp.start.length !== n) throw new RangeError(`resumeFrom.x.length must be n = ${n}. Value: ${inp.start.length}`);
     x[0].set(inp.start);
   } else if (tel) {
     x[0].set(tel);
