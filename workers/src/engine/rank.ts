@@ -207,7 +207,8 @@ async function steps(s: RunState, params: RankParams, hooks: RankHooks, pool: Ra
   const t2 = performance.now();
   const steps = residuals.length;
   return {
-    scores: s.views.x[s.cur].slice(),
+    // On shared memory, so that score files can be formatted on the pool's threads without another copy.
+    scores: sharedSlice(s.views.x[s.cur]),
     iterations: k,
     residual,
     errorBound: (alpha / (1 - alpha)) * residual,
@@ -226,4 +227,10 @@ function median(xs: number[]): number {
   const s = [...xs].sort((a, b) => a - b);
   const mid = s.length >> 1;
   return s.length % 2 ? s[mid] : (s[mid - 1] + s[mid]) / 2;
+}
+
+function sharedSlice(a: Float64Array): Float64Array {
+  const out = new Float64Array(new SharedArrayBuffer(a.byteLength));
+  out.set(a);
+  return out;
 }

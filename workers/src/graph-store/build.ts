@@ -376,7 +376,7 @@ function permuteIds(ids: NodeIds, perm: Uint32Array): NodeIds {
   const n = perm.length;
   if (ids.kind === "integer") {
     // Word by word: reading a BigUint64Array element makes a BigInt.
-    const out = new BigUint64Array(n);
+    const out = new BigUint64Array(new SharedArrayBuffer(8 * n));
     const from = new Uint32Array(ids.ids.buffer, ids.ids.byteOffset, 2 * n);
     const to = new Uint32Array(out.buffer);
     for (let c = 0; c < n; c++) {

@@ -38,11 +38,12 @@ export function radixOrder64(hiKeys: Uint32Array, loKeys: Uint32Array): Uint32Ar
   const n = hiKeys.length;
   let hi: Uint32Array = hiKeys;
   let lo: Uint32Array = loKeys;
-  let idx = new Uint32Array(n);
+  // Shared memory: the order is handed to worker threads that format score files.
+  let idx = new Uint32Array(new SharedArrayBuffer(4 * n));
   for (let i = 0; i < n; i++) idx[i] = i;
   let hi2: Uint32Array = new Uint32Array(n);
   let lo2: Uint32Array = new Uint32Array(n);
-  let idx2 = new Uint32Array(n);
+  let idx2 = new Uint32Array(new SharedArrayBuffer(4 * n));
   const count = new Uint32Array(RADIX);
   for (let pass = 0; pass < 4; pass++) {
     const src = pass < 2 ? lo : hi;

@@ -60,7 +60,9 @@ async function writeCsv(fh: FileHandle, nodeIds: NodeIds, scores: Float64Array, 
   }
 }
 
+/** `a` itself when it lives in shared memory, else a copy that does. */
 function sharedCopy<T extends Uint8Array | Uint32Array | Float64Array>(a: T): T {
+  if (a.buffer instanceof SharedArrayBuffer) return a;
   const Ctor = a.constructor as new (buffer: SharedArrayBuffer) => T;
   const copy = new Ctor(new SharedArrayBuffer(a.byteLength));
   // A loop, not set(): copying into shared memory with set() takes a slow path.
