@@ -132,6 +132,17 @@ describe("the graph's shared heap", () => {
     const loan = onHeap.heap?.lend();
     expect(loan).toBeTruthy();
     loan?.release();
+    // A canceled run keeps the loan (a stopped thread may still write there); later runs copy and stay right.
+    const stop = new AbortController();
+    const canceled = await rank(onHeap, weightedRun, {
+      pool,
+      signal: stop.signal,
+      onIteration: (p) => void (p.k === 2 && stop.abort()),
+    });
+    expect(canceled.stopReason).toBe("canceled");
+    expect(onHeap.heap?.lend()).toBeNull();
+    const after = await rank(onHeap, weightedRun, { pool });
+    expect(sameBits(after.scores, reference.scores)).toBe(true);
   });
 
   it("survives the graph store: repeated sources and the heap come back on load", async () => {

@@ -124,6 +124,17 @@ describe("WebAssembly scanner", () => {
     expect(compare(text, 9, true, 123_457).st.m).toBe(123_457);
   });
 
+  it("agrees when it refuses every line (17-digit weights), one line at a time", async () => {
+    let text = "";
+    for (let i = 0; i < 3000; i++) text += `${i % 97} ${(i * 7) % 89} 0.${String(30000000000000004n + BigInt(i))}\n`;
+    const path = files.write(text);
+    const opts = { limits: { threads: 1 } };
+    const viaWasm = await ingestEdgeFile(path, { weighted: true }, opts);
+    const viaJs = await ingestEdgeFile(path, { weighted: true }, { ...opts, jsScanner: true });
+    expect(viaWasm.stats).toEqual(viaJs.stats);
+    expect(edgeList(viaWasm.graph)).toEqual(edgeList(viaJs.graph));
+  });
+
   it("gives the same graph through ingest as the JS scanner", async () => {
     const rnd = prng(9);
     let text = "# comment\n";

@@ -62,4 +62,12 @@ describe("CSV rows on pool threads", () => {
     expect(threads).toBe(here);
     expect(here).toContain('"page ""0"", kestrel",');
   });
+
+  it("refuses string ids that are not UTF-8, naming nothing half-written", async () => {
+    const bytes = Uint8Array.of(0x61, 0x62, 0xff, 0x63);
+    const offsets = Uint32Array.of(0, 2, 4);
+    const path = join(dir, "bad-ids.csv");
+    await expect(writeScores(path, "csv", { kind: "string", bytes, offsets }, Float64Array.of(0.5, 0.5), {})).rejects.toThrow();
+    await expect(readFile(path)).rejects.toThrow();
+  });
 });

@@ -117,11 +117,11 @@ async function iterate(graph: Graph, params: RankParams, hooks: RankHooks, pool:
     seeds,
     start: hooks.resumeFrom?.x ?? null,
   });
-  try {
-    return await steps(s, params, hooks, pool, t0);
-  } finally {
-    s.release();
-  }
+  // The borrowed memory goes back only when every step ended normally: after a cancel or a failure, a terminated
+  // thread may still be writing, so the graph's heap stays lent and later runs copy the graph instead.
+  const result = await steps(s, params, hooks, pool, t0);
+  if (result.stopReason === "converged" || result.stopReason === "iteration-cap") s.release();
+  return result;
 }
 
 async function steps(s: RunState, params: RankParams, hooks: RankHooks, pool: RankPool, t0: number): Promise<RankResult> {

@@ -118,6 +118,26 @@ export function prepareRunState(graph: Graph, inp: StateInputs): RunState {
   if (inp.start && inp.start.length !== n) throw new RangeError(`resumeFrom.x.length must be n = ${n}. Value: ${inp.start.length}`);
   const teleport = inp.seeds ? teleportVector(n, inp.seeds) : null;
   const { heap, loan } = runMemory(graph, inp.kernel, useWeights, distinct);
+  try {
+    return buildState(graph, inp, n, blocks, blockNodes, useWeights, distinct, teleport, heap, loan);
+  } catch (error) {
+    loan?.release();
+    throw error;
+  }
+}
+
+function buildState(
+  graph: Graph,
+  inp: StateInputs,
+  n: number,
+  blocks: number,
+  blockNodes: number,
+  useWeights: boolean,
+  distinct: boolean,
+  teleport: Float64Array | null,
+  heap: SharedHeap | null,
+  loan: HeapLoan | null,
+): RunState {
   const arena = new Arena(heap);
   const { inOffsets, sources } = distinct
     ? distinctArcs(graph, arena)

@@ -136,10 +136,10 @@ export interface PassD {
   inOffsets: Uint32Array;
   fill: Uint32Array;
   sources: Uint32Array;
-  /** Out: in-degree of each target of the slice counting repeated sources once. */
-  inDistinct: Uint32Array;
-  /** Out, this slice's own: dupOut[u] += 1 for every repeat of source u in the slice's lists. */
-  dupOut: Uint32Array;
+  /** Out, when set (duplicates merge): in-degree of each target of the slice counting repeated sources once. */
+  inDistinct: Uint32Array | null;
+  /** Out, this slice's own, when set: dupOut[u] += 1 for every repeat of source u in the slice's lists. */
+  dupOut: Uint32Array | null;
 }
 
 const INSERTION_SORT_MAX = 48;
@@ -183,7 +183,7 @@ export function scatterByTarget(t: PassD): number {
       for (let i = a + 1; i < b; i++) {
         if (sources[i] === sources[i - 1]) {
           dups++;
-          dupOut[sources[i]]++;
+          if (dupOut !== null) dupOut[sources[i]]++;
         }
       }
     } else {
@@ -197,11 +197,11 @@ export function scatterByTarget(t: PassD): number {
         sources[j + 1] = key;
         if (j >= a && sources[j] === key) {
           dups++;
-          dupOut[key]++;
+          if (dupOut !== null) dupOut[key]++;
         }
       }
     }
-    inDistinct[v] = b - a - (dups - before);
+    if (inDistinct !== null) inDistinct[v] = b - a - (dups - before);
   }
   return dups;
 }

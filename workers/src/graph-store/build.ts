@@ -150,8 +150,9 @@ export async function buildGraph(
     const fill = sharedU32(n);
     fill.set(inOffsets.subarray(0, n));
     const cuts = balancedCuts((v) => inOffsets[v], n, slices);
-    const inDistinct = sharedU32(n);
-    const dupOut = cuts.slice(0, -1).map(() => sharedU32(n));
+    // Repeats are counted per node only when duplicates merge (the degrees then count them once).
+    const inDistinct = merge ? sharedU32(n) : null;
+    const dupOut = cuts.slice(0, -1).map(() => (merge ? sharedU32(n) : null));
     const dupsBySlice = await runner.run(
       cuts.slice(0, -1).map((vLo, k) => ({
         kind: "d" as const,
@@ -164,11 +165,11 @@ export async function buildGraph(
     for (let c = 0; c < n; c++) outWeight[perm[c]] = counts.out[c];
     for (let u = 0; u < n; u++) {
       let d = outWeight[u];
-      if (merge) for (const slice of dupOut) d -= slice[u];
+      for (const slice of dupOut) if (slice !== null && dups > 0) d -= slice[u];
       outDegree[u] = d;
     }
     // Degrees of the graph as the policy defines it: merged duplicates count once.
-    const degrees = merge ? { in: inDistinct, out: outDegree } : { in: lengths(inOffsets), out: outDegree };
+    const degrees = { in: inDistinct ?? lengths(inOffsets), out: outDegree };
     const base = { n, inOffsets, outWeight, ids: ids(), ...(heap ? { heap } : {}) };
     if (!merge || dups === 0) {
       return { graph: { ...base, m: arcs, sources, weights: null }, report: reportOf(0), degrees };

@@ -9,8 +9,11 @@ type ScanFn = (
   p: number, e: number, delim: number, threeCols: number, cap: number, src: number, dst: number, w: number, stats: number,
 ) => number;
 
-/** Input bytes per call; a line longer than this is left to the JS scanner. */
+/** Input bytes per call at most; a line longer than this is left to the JS scanner. */
 const BLOCK = 1 << 20;
+/** The first block of a call: small, because the scan may refuse its first line (then the caller parses that line and
+ *  calls again), and a refused line must not cost a megabyte's copy. Blocks grow while every line is taken. */
+const FIRST_BLOCK = 4096;
 /** Lines per block at most: the shortest line is "1 2\n". */
 const OUT_CAP = BLOCK / 4 + 1;
 const IN = 65_536;
@@ -53,12 +56,16 @@ export class WasmScanner {
   /** scanIntegerLines(buf, p, e, st), in blocks. */
   scan(buf: Uint8Array, p: number, e: number, st: ScanState): number {
     const stats = this.#stats;
+    let block = FIRST_BLOCK;
     while (p < e && st.m < st.src.length) {
+      const d = buf[p] - 48;
+      if (d < 0 || d > 9) break;
       let end = e;
-      if (e - p > BLOCK) {
-        end = buf.lastIndexOf(10, p + BLOCK - 1) + 1;
+      if (e - p > block) {
+        end = buf.lastIndexOf(10, p + block - 1) + 1;
         if (end <= p) return scanIntegerLines(buf, p, e, st);
       }
+      block = Math.min(BLOCK, block * 8);
       const len = end - p;
       this.#bytes.set(buf.subarray(p, end), IN);
       stats[1] = st.selfLoops;

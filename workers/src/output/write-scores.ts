@@ -18,17 +18,17 @@ const utf8 = new TextDecoder("utf-8", { fatal: true });
  * flight while earlier ones are written). String ids are checked to be UTF-8 once, up front.
  */
 async function writeCsv(fh: FileHandle, nodeIds: NodeIds, scores: Float64Array, order: Uint32Array, pool?: CsvRowPool): Promise<void> {
-  if (nodeIds.kind === "string") utf8.decode(nodeIds.bytes);
+  if (nodeIds.kind === "string") checkUtf8(nodeIds.offsets, nodeIds.bytes);
   let ids = csvIds(nodeIds);
   const bound = rowBound(ids);
   const pieceRows = Math.max(1, Math.min(PIECE_ROWS, Math.floor(PIECE_BYTES / bound)));
-  await fh.write(CSV_HEADER);
+  await writeAll(fh, new TextEncoder().encode(CSV_HEADER));
   const n = order.length;
   if (!pool || n < 2 * pieceRows) {
     const out = new Uint8Array(Math.min(n, pieceRows) * bound);
     for (let from = 0; from < n; from += pieceRows) {
       const to = Math.min(n, from + pieceRows);
-      await fh.write(out, 0, formatRows(ids, scores, order, from, to, out));
+      await writeAll(fh, out.subarray(0, formatRows(ids, scores, order, from, to, out)));
     }
     return;
   }
@@ -50,13 +50,34 @@ async function writeCsv(fh: FileHandle, nodeIds: NodeIds, scores: Float64Array, 
   try {
     while (inFlight.length > 0) {
       const { out, bytes } = inFlight.shift() as (typeof inFlight)[number];
-      await fh.write(new Uint8Array(out, 0, await bytes));
+      await writeAll(fh, new Uint8Array(out, 0, await bytes));
       spare.push(out);
       if (next < pieces) launch();
     }
   } catch (error) {
     for (const piece of inFlight) piece.bytes.catch(() => {});
     throw error;
+  }
+}
+
+/** Writes every byte (a write may take fewer than asked, e.g. near a full disk: then it says so or throws). */
+async function writeAll(fh: FileHandle, bytes: Uint8Array): Promise<void> {
+  for (let at = 0; at < bytes.length; ) {
+    const { bytesWritten } = await fh.write(bytes, at, bytes.length - at);
+    if (bytesWritten <= 0) throw new Error(`score file: a write stored nothing at byte ${at} of ${bytes.length}`);
+    at += bytesWritten;
+  }
+}
+
+/** Throws unless every id is UTF-8; decodes in pieces cut at id boundaries (a string has a length limit). */
+function checkUtf8(offsets: Uint32Array, bytes: Uint8Array): void {
+  const PIECE = 64 << 20;
+  let start = 0;
+  for (let v = 1; v < offsets.length; v++) {
+    if (offsets[v] - offsets[start] >= PIECE || v === offsets.length - 1) {
+      utf8.decode(bytes.subarray(offsets[start], offsets[v]));
+      start = v;
+    }
   }
 }
 
