@@ -8,19 +8,17 @@ import { RankPool } from "../../workers/src/engine/rank-pool";
 import { startRunner } from "../../workers/src/runner/main";
 import {
   createTeam,
-  createUpload,
   eventRows,
   iterationRows,
   openDb,
-  queueGraph,
   queueRun,
+  readyGraph,
   removeDir,
   ringEdgeList,
   runnerConfig,
   runRow,
   tempDataDir,
   waitFor,
-  waitForGraph,
   waitForStatus,
   type TestTeam,
 } from "./runner-support";
@@ -42,14 +40,7 @@ describe("shard faults", () => {
     rankPool = new RankPool({ threads: 2 });
     dataDir = tempDataDir();
     team = await createTeam(db, "faults");
-    const runner = await startRunner(runnerConfig(dataDir, team.teamId), { pool: rankPool });
-    try {
-      const upload = await createUpload(db, dataDir, team, "ferry-loop.txt", ringEdgeList(9_000));
-      graphId = await queueGraph(db, team, upload.id);
-      expect((await waitForGraph(db, graphId)).status).toBe("ready");
-    } finally {
-      await runner.stop();
-    }
+    graphId = await readyGraph(db, dataDir, team, rankPool, "ferry-loop.txt", ringEdgeList(9_000));
   });
 
   afterAll(async () => {

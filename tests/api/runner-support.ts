@@ -9,7 +9,9 @@ import { inject } from "vitest";
 import { graphs, runEvents, runIterations, runs, uploads } from "../../api/src/db/schema";
 import { insertTeam, insertUser, upsertMembership } from "../../api/src/features/team/team.repo";
 import { createDb, createPool, type Db, type DbPool, type DbSettings } from "../../api/src/lib/db";
+import type { RankPool } from "../../workers/src/engine/rank-pool";
 import type { RunnerConfig } from "../../workers/src/runner/config";
+import { startRunner } from "../../workers/src/runner/main";
 import { mulberry32 as prng } from "../../workers/src/core/prng";
 
 export const ROOT = path.resolve(import.meta.dirname, "../..");
@@ -193,6 +195,20 @@ export async function waitForGraph(db: Db, graphId: number, timeoutMs = 60_000) 
     const row = await graphRow(db, graphId);
     return row.status === "ready" || row.status === "rejected" ? row : null;
   }, timeoutMs);
+}
+
+/** A ready graph of `team` from an uploaded edge list, ingested by a runner that is stopped again; returns its id. */
+export async function readyGraph(db: Db, dataDir: string, team: TestTeam, rankPool: RankPool, filename: string, content: string): Promise<number> {
+  const runner = await startRunner(runnerConfig(dataDir, team.teamId), { pool: rankPool });
+  try {
+    const upload = await createUpload(db, dataDir, team, filename, content);
+    const graphId = await queueGraph(db, team, upload.id);
+    const graph = await waitForGraph(db, graphId);
+    if (graph.status !== "ready") throw new Error(`graph ${graphId} was not ingested: ${graph.status}`);
+    return graphId;
+  } finally {
+    await runner.stop();
+  }
 }
 
 

@@ -8,18 +8,16 @@ import { RankPool } from "../../workers/src/engine/rank-pool";
 import { startRunner } from "../../workers/src/runner/main";
 import {
   createTeam,
-  createUpload,
   iterationRows,
   openDb,
-  queueGraph,
   queueRun,
+  readyGraph,
   removeDir,
   ringEdgeList,
   runnerConfig,
   runRow,
   tempDataDir,
   waitFor,
-  waitForGraph,
   waitForStatus,
   type TestTeam,
 } from "./runner-support";
@@ -38,14 +36,7 @@ describe("run timings", () => {
     rankPool = new RankPool({ threads: 2 });
     dataDir = tempDataDir();
     team = await createTeam(db, "timings");
-    const runner = await startRunner(runnerConfig(dataDir, team.teamId), { pool: rankPool });
-    try {
-      const upload = await createUpload(db, dataDir, team, "ferry-loop.txt", ringEdgeList(9_000));
-      graphId = await queueGraph(db, team, upload.id);
-      expect((await waitForGraph(db, graphId)).status).toBe("ready");
-    } finally {
-      await runner.stop();
-    }
+    graphId = await readyGraph(db, dataDir, team, rankPool, "ferry-loop.txt", ringEdgeList(9_000));
   });
 
   afterAll(async () => {
