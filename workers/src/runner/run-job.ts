@@ -174,10 +174,14 @@ export async function executeRun(ctx: RunnerContext, claim: ClaimedRun, job: Job
         },
       );
     } catch (error) {
+      forgetCachedGraph();
       await rec.flush();
       if (job.cause === "lease-lost" || job.cause === "shutdown") return;
       return fail(`The iteration stopped with an error: ${message(error)}`);
     }
+    // A run that did not end cleanly keeps its graph's memory lent (a stopped thread may still write there): load the
+    // graph afresh for the next run rather than have every later run copy it.
+    if (result.stopReason !== "converged" && result.stopReason !== "iteration-cap") forgetCachedGraph();
   }
   await rec.flush();
   const iterated = result.residuals.length > 0;
