@@ -86,8 +86,7 @@ function sharedCopy<T extends Uint8Array | Uint32Array | Float64Array>(a: T): T 
   if (a.buffer instanceof SharedArrayBuffer) return a;
   const Ctor = a.constructor as new (buffer: SharedArrayBuffer) => T;
   const copy = new Ctor(new SharedArrayBuffer(a.byteLength));
-  // A loop, not set(): copying into shared memory with set() takes a slow path.
-  for (let i = 0; i < a.length; i++) copy[i] = a[i];
+  copy.set(a);
   return copy;
 }
 
