@@ -11,7 +11,7 @@ import { basename, dirname, join } from "node:path";
 import { rmatFile } from "./rmat";
 
 const ROOT = join(import.meta.dirname, "..");
-const BIN = join(ROOT, "bin", "stillpoint.mjs");
+const BIN = join(ROOT, "bin", "stillpoint");
 
 interface Args {
   scales: number[];
@@ -75,7 +75,7 @@ interface Ours {
 
 async function runOurs(file: string, threads: number): Promise<Ours> {
   const out = join(dirname(file), `scores-${basename(file, ".tsv")}.csv`);
-  const r = await run(process.execPath, [BIN, "rank", file, "--keep-self-loops", "--json", "--top", "0", "--threads", String(threads), "--out", out]);
+  const r = await run(BIN, ["rank", file, "--keep-self-loops", "--json", "--top", "0", "--threads", String(threads), "--out", out]);
   const j = JSON.parse(r.value);
   return {
     wallMs: r.wallMs,

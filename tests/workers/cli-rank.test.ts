@@ -6,7 +6,9 @@ import { afterAll, describe, expect, it } from "vitest";
 import { TempFiles } from "../fixtures/edges/edge-files";
 
 const ROOT = join(import.meta.dirname, "..", "..");
-const BIN = join(ROOT, "bin", "stillpoint.mjs");
+// The package's bin (a shell entry that sets glibc's huge-page tunable, then runs bin/stillpoint.mjs in-process).
+const BIN = join(ROOT, "bin", "stillpoint");
+const MJS = join(ROOT, "bin", "stillpoint.mjs");
 const files = new TempFiles();
 afterAll(() => files.remove());
 
@@ -18,7 +20,7 @@ interface Outcome {
 
 function stillpoint(...args: string[]): Promise<Outcome> {
   return new Promise((resolve) => {
-    execFile(process.execPath, [BIN, ...args], { cwd: ROOT, timeout: 120_000 }, (err, stdout, stderr) => {
+    execFile(BIN, args, { cwd: ROOT, timeout: 120_000 }, (err, stdout, stderr) => {
       const code = err ? (typeof err.code === "number" ? err.code : 1) : 0;
       resolve({ code, stdout, stderr });
     });
@@ -72,20 +74,25 @@ describe("stillpoint rank", () => {
     expect(scores(merged)["2"]).toBeGreaterThan(TINY_WEB_SCORES["2"] + 0.01);
   });
 
-  it("runs the same without the start-up bundle (through the TypeScript loader)", async () => {
+  it("runs the same without the start-up bundle (through the TypeScript loader) and when started as a plain script", async () => {
     const path = files.write(TINY_WEB);
     const bundled = await stillpoint("rank", path, "--json", "--threads", "1");
-    const viaLoader = await new Promise<Outcome>((resolve) => {
-      execFile(process.execPath, [BIN, "rank", path, "--json", "--threads", "1"], { cwd: ROOT, env: { ...process.env, STILLPOINT_NO_BUNDLE: "1" } }, (err, stdout, stderr) =>
-        resolve({ code: err ? 1 : 0, stdout, stderr }),
-      );
-    });
-    expect(viaLoader.code, viaLoader.stderr).toBe(0);
+    const spawnWith = (cmd: string, args: string[], env: NodeJS.ProcessEnv) =>
+      new Promise<Outcome>((resolve) => {
+        execFile(cmd, args, { cwd: ROOT, env: { ...process.env, ...env } }, (err, stdout, stderr) => resolve({ code: err ? 1 : 0, stdout, stderr }));
+      });
+    const args = ["rank", path, "--json", "--threads", "1"];
+    // Through tsx in-process; and `node bin/stillpoint.mjs`, which starts a second Node with the tunable set.
+    const viaLoader = await spawnWith(BIN, args, { STILLPOINT_NO_BUNDLE: "1" });
+    const viaScript = await spawnWith(process.execPath, [MJS, ...args], { GLIBC_TUNABLES: "" });
     const strip = (o: Outcome) => {
       const j = JSON.parse(o.stdout);
       return { ...j, timings: null, peakRssBytes: null, ingest: { ...j.ingest, parseMBps: null } };
     };
-    expect(strip(viaLoader)).toEqual(strip(bundled));
+    for (const other of [viaLoader, viaScript]) {
+      expect(other.code, other.stderr).toBe(0);
+      expect(strip(other)).toEqual(strip(bundled));
+    }
   });
 
   it("writes every node's score to a CSV file in rank order", async () => {

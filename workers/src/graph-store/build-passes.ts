@@ -10,18 +10,116 @@ export interface PassSegment {
   weight: Float64Array | null;
 }
 
-/** Relabel pass: x → fmap[x] in place, for both ends of every arc of the slice's segments. */
+/**
+ * Relabel pass: x → fmap[x] in place, for both ends of every arc of the slice's segments. A segment with `starts` is
+ * also partitioned in place by target bucket: bucket[x] is the bucket of stored target value x, and the arcs
+ * of bucket j end up at [starts[j], starts[j + 1]) of the segment. The scatter then reads one bucket at a time and
+ * writes into one cache-sized stretch of the in-lists instead of all over them.
+ */
 export interface PassRelabel {
-  segments: Array<{ src: Uint32Array; dst: Uint32Array; fmap: Uint32Array }>;
+  segments: Array<{ src: Uint32Array; dst: Uint32Array; fmap: Uint32Array; bucket?: Uint8Array; starts?: Uint32Array }>;
 }
 
+/** Per-thread scratch of the partition, reused across segments and passes. */
+let scratch = { src: new Uint32Array(0), dst: new Uint32Array(0), bucket: new Uint8Array(0) };
+
 export function relabelArcs(t: PassRelabel): void {
-  for (const { src, dst, fmap } of t.segments) {
-    for (let i = 0; i < src.length; i++) {
-      src[i] = fmap[src[i]];
-      dst[i] = fmap[dst[i]];
+  for (const { src, dst, fmap, bucket, starts } of t.segments) {
+    if (bucket === undefined || starts === undefined) {
+      for (let i = 0; i < src.length; i++) {
+        src[i] = fmap[src[i]];
+        dst[i] = fmap[dst[i]];
+      }
+      continue;
+    }
+    const len = src.length;
+    if (scratch.src.length < len) {
+      const size = Math.max(len, 2 * scratch.src.length);
+      scratch = { src: new Uint32Array(size), dst: new Uint32Array(size), bucket: new Uint8Array(size) };
+    }
+    partition(src, dst, fmap, bucket, starts);
+  }
+}
+
+/**
+ * Relabel one segment and partition it by target bucket. Four interleaved lanes (arc i on lane i mod 4) count and
+ * place on their own counters, so consecutive arcs of one bucket do not wait on each other's increment; inside a
+ * bucket the arcs sit lane by lane (a fixed order: the scatter sorts each list anyway).
+ */
+function partition(src: Uint32Array, dst: Uint32Array, fmap: Uint32Array, bucket: Uint8Array, starts: Uint32Array): void {
+  const len = src.length;
+  const tb = scratch.bucket;
+  const buckets = starts.length - 1;
+  const c = new Uint32Array(4 * buckets);
+  const body = len & ~3;
+  for (let i = 0; i < body; i += 4) {
+    const x0 = dst[i];
+    const x1 = dst[i + 1];
+    const x2 = dst[i + 2];
+    const x3 = dst[i + 3];
+    const b0 = bucket[x0];
+    const b1 = bucket[x1];
+    const b2 = bucket[x2];
+    const b3 = bucket[x3];
+    tb[i] = b0;
+    tb[i + 1] = b1;
+    tb[i + 2] = b2;
+    tb[i + 3] = b3;
+    c[4 * b0]++;
+    c[4 * b1 + 1]++;
+    c[4 * b2 + 2]++;
+    c[4 * b3 + 3]++;
+    src[i] = fmap[src[i]];
+    src[i + 1] = fmap[src[i + 1]];
+    src[i + 2] = fmap[src[i + 2]];
+    src[i + 3] = fmap[src[i + 3]];
+    dst[i] = fmap[x0];
+    dst[i + 1] = fmap[x1];
+    dst[i + 2] = fmap[x2];
+    dst[i + 3] = fmap[x3];
+  }
+  for (let i = body; i < len; i++) {
+    const x = dst[i];
+    const b = bucket[x];
+    tb[i] = b;
+    c[4 * b]++;
+    src[i] = fmap[src[i]];
+    dst[i] = fmap[x];
+  }
+  let at = 0;
+  for (let j = 0; j < buckets; j++) {
+    starts[j] = at;
+    for (let lane = 0; lane < 4; lane++) {
+      const k = 4 * j + lane;
+      const count = c[k];
+      c[k] = at;
+      at += count;
     }
   }
+  starts[buckets] = at;
+  const ts = scratch.src;
+  const td = scratch.dst;
+  for (let i = 0; i < body; i += 4) {
+    const p0 = c[4 * tb[i]]++;
+    const p1 = c[4 * tb[i + 1] + 1]++;
+    const p2 = c[4 * tb[i + 2] + 2]++;
+    const p3 = c[4 * tb[i + 3] + 3]++;
+    ts[p0] = src[i];
+    td[p0] = dst[i];
+    ts[p1] = src[i + 1];
+    td[p1] = dst[i + 1];
+    ts[p2] = src[i + 2];
+    td[p2] = dst[i + 2];
+    ts[p3] = src[i + 3];
+    td[p3] = dst[i + 3];
+  }
+  for (let i = body; i < len; i++) {
+    const p = c[4 * tb[i]]++;
+    ts[p] = src[i];
+    td[p] = dst[i];
+  }
+  src.set(ts.subarray(0, len));
+  dst.set(td.subarray(0, len));
 }
 
 /**
@@ -123,14 +221,17 @@ export function fillInLists(t: PassB): number {
 }
 
 /**
- * Unweighted graphs skip pass A: arcs whose target is in [vLo, vHi) go straight into their in-lists (fill[v]
- * advances), then each of those lists is sorted by source. Equal sources are interchangeable without weights, so the
- * result equals the two-pass build's.
+ * Unweighted graphs skip pass A: arcs go straight into their in-lists (fill[v] advances), then each list is sorted by
+ * source. Equal sources are interchangeable without weights, so the result equals the two-pass build's.
+ * The slice does the target ranges [cuts[j], cuts[j + 1]) for j in [first, last), one after another. A segment with
+ * `starts` (partitioned by the relabel pass on the same cuts) gives each range's arcs at [starts[j], starts[j + 1]);
+ * one without is read whole, keeping the arcs of the range.
  */
 export interface PassD {
-  segments: PassSegment[];
-  vLo: number;
-  vHi: number;
+  segments: Array<PassSegment & { starts?: Uint32Array }>;
+  cuts: Uint32Array;
+  first: number;
+  last: number;
   dropSelf: boolean;
   both: boolean;
   inOffsets: Uint32Array;
@@ -146,37 +247,128 @@ const INSERTION_SORT_MAX = 48;
 
 /** Returns the number of arcs in the slice's lists equal to the arc before them (duplicates). */
 export function scatterByTarget(t: PassD): number {
-  const { vLo, vHi, dropSelf, both, fill, sources } = t;
-  for (const { src, dst } of t.segments) {
-    if (!both) {
-      for (let i = 0; i < src.length; i++) {
-        const v = dst[i];
-        if (v < vLo || v >= vHi) continue;
-        const u = src[i];
-        if (u === v && dropSelf) continue;
-        sources[fill[v]++] = u;
-      }
+  let dups = 0;
+  const partitioned = !t.both && t.segments.every((seg) => seg.starts !== undefined);
+  for (let j = t.first; j < t.last; j++) {
+    const vLo = t.cuts[j];
+    const vHi = t.cuts[j + 1];
+    if (partitioned) {
+      dups += placeSorted(t, j);
       continue;
     }
-    for (let i = 0; i < src.length; i++) {
+    for (const seg of t.segments) scatterRange(t, seg, 0, seg.src.length, vLo, vHi);
+    dups += sortLists(t, vLo, vHi);
+  }
+  return dups;
+}
+
+let pairs = { u: new Uint32Array(0), v: new Uint32Array(0), u2: new Uint32Array(0), v2: new Uint32Array(0) };
+
+/**
+ * The in-lists of bucket j without a comparison sort: gather the bucket's arcs (a few hundred KB), order them by
+ * source with a least-significant-digit radix sort, then place them in that order, so every list fills already
+ * sorted and a repeat lands right after its equal.
+ */
+function placeSorted(t: PassD, j: number): number {
+  const { dropSelf, fill, sources, inOffsets, inDistinct, dupOut } = t;
+  const vLo = t.cuts[j];
+  const vHi = t.cuts[j + 1];
+  let total = 0;
+  for (const seg of t.segments) total += (seg.starts as Uint32Array)[j + 1] - (seg.starts as Uint32Array)[j];
+  if (pairs.u.length < total) {
+    const size = Math.max(total, Math.ceil(1.25 * pairs.u.length));
+    pairs = { u: new Uint32Array(size), v: new Uint32Array(size), u2: new Uint32Array(size), v2: new Uint32Array(size) };
+  }
+  let { u: us, v: vs, u2: us2, v2: vs2 } = pairs;
+  let k = 0;
+  for (const seg of t.segments) {
+    const starts = seg.starts as Uint32Array;
+    const { src, dst } = seg;
+    const hi = starts[j + 1];
+    for (let i = starts[j]; i < hi; i++) {
       const u = src[i];
       const v = dst[i];
-      const ownV = v >= vLo && v < vHi;
-      let ownU = u >= vLo && u < vHi;
-      if (!ownU && !ownV) continue;
-      if (u === v) {
-        if (dropSelf) continue;
-        ownU = false;
-      }
-      if (ownV) sources[fill[v]++] = u;
-      if (ownU) sources[fill[u]++] = v;
+      if (u === v && dropSelf) continue;
+      us[k] = u;
+      vs[k] = v;
+      k++;
     }
   }
-  const { inOffsets, inDistinct, dupOut } = t;
+  // Digits of at most 11 bits over the bits of the largest source id.
+  const n = inOffsets.length - 1;
+  const bits = Math.max(1, 32 - Math.clz32(Math.max(1, n - 1)));
+  const passes = Math.ceil(bits / 11);
+  const width = Math.ceil(bits / passes);
+  const mask = (1 << width) - 1;
+  const count = new Uint32Array(mask + 2);
+  for (let p = 0, shift = 0; p < passes; p++, shift += width) {
+    count.fill(0);
+    for (let i = 0; i < k; i++) count[((us[i] >>> shift) & mask) + 1]++;
+    if (count[(((k > 0 ? us[0] : 0) >>> shift) & mask) + 1] === k) continue;
+    for (let d = 0; d <= mask; d++) count[d + 1] += count[d];
+    for (let i = 0; i < k; i++) {
+      const u = us[i];
+      const at = count[(u >>> shift) & mask]++;
+      us2[at] = u;
+      vs2[at] = vs[i];
+    }
+    [us, us2] = [us2, us];
+    [vs, vs2] = [vs2, vs];
+  }
+  let dups = 0;
+  for (let i = 0; i < k; i++) {
+    const u = us[i];
+    const v = vs[i];
+    const at = fill[v];
+    if (at > inOffsets[v] && sources[at - 1] === u) {
+      dups++;
+      if (dupOut !== null) dupOut[u]++;
+    } else if (inDistinct !== null) inDistinct[v]++;
+    sources[at] = u;
+    fill[v] = at + 1;
+  }
+  for (let v = vLo; v < vHi; v++) {
+    if (fill[v] !== inOffsets[v + 1]) throw new Error(`build: in-list of node ${v} got ${fill[v] - inOffsets[v]} arcs, expected ${inOffsets[v + 1] - inOffsets[v]}`);
+  }
+  return dups;
+}
+
+function scatterRange(t: PassD, seg: PassSegment, lo: number, hi: number, vLo: number, vHi: number): void {
+  const { dropSelf, fill, sources } = t;
+  const { src, dst } = seg;
+  if (!t.both) {
+    for (let i = lo; i < hi; i++) {
+      const v = dst[i];
+      if (v < vLo || v >= vHi) continue;
+      const u = src[i];
+      if (u === v && dropSelf) continue;
+      sources[fill[v]++] = u;
+    }
+    return;
+  }
+  for (let i = lo; i < hi; i++) {
+    const u = src[i];
+    const v = dst[i];
+    const ownV = v >= vLo && v < vHi;
+    let ownU = u >= vLo && u < vHi;
+    if (!ownU && !ownV) continue;
+    if (u === v) {
+      if (dropSelf) continue;
+      ownU = false;
+    }
+    if (ownV) sources[fill[v]++] = u;
+    if (ownU) sources[fill[u]++] = v;
+  }
+}
+
+/** Sort the in-lists of [vLo, vHi) by source; counts repeats (per target and per source when asked). */
+function sortLists(t: PassD, vLo: number, vHi: number): number {
+  const { inOffsets, inDistinct, dupOut, sources, fill } = t;
   let dups = 0;
   for (let v = vLo; v < vHi; v++) {
     const a = inOffsets[v];
     const b = inOffsets[v + 1];
+    if (fill[v] !== b) throw new Error(`build: in-list of node ${v} got ${fill[v] - a} arcs, expected ${b - a}`);
     const before = dups;
     if (b - a > INSERTION_SORT_MAX) {
       sources.subarray(a, b).sort();

@@ -38,6 +38,8 @@ export interface BuildPolicy {
   duplicateLayout?: "weights" | "repeats";
   /** Smallest graph (bytes of its arrays) built onto a shared heap; smaller ones use plain shared buffers. */
   heapMinBytes?: number;
+  /** Bytes of in-lists per target bucket of a directed unweighted build (default 512 KiB; tests make it small). */
+  bucketBytes?: number;
 }
 
 /** In- and out-degree of every node (edges after the policies; merged duplicates once). */
@@ -123,15 +125,22 @@ export async function buildGraph(
   }
 
   // Relabel the parsed arcs in place to final ids, segments split across slices by arc count. The parsed arrays are
-  // the build's own from here on.
-  const fmaps = new Map<Uint32Array, Uint32Array>();
-  const relabel = input.segments.map((seg) => {
-    let fmap = fmaps.get(seg.map);
-    if (!fmap) {
-      fmap = compose(perm, seg.map);
-      fmaps.set(seg.map, fmap);
+  // the build's own from here on. For the direct unweighted build the same pass partitions each segment by target
+  // bucket (see PassRelabel).
+  const buckets = !weighted && policy.directed ? bucketCount(arcs, slices, policy.bucketBytes ?? BUCKET_BYTES) : 1;
+  const bucketCuts = Uint32Array.from(balancedCuts((v) => inOffsets[v], n, buckets));
+  const bucketOfFinal = buckets > 1 ? new Uint8Array(n) : null;
+  if (bucketOfFinal) for (let j = 0; j < buckets; j++) bucketOfFinal.fill(j, bucketCuts[j], bucketCuts[j + 1]);
+  const starts = buckets > 1 ? sharedU32(input.segments.length * (buckets + 1)) : null;
+  const fmaps = new Map<Uint32Array, { fmap: Uint32Array; bucket?: Uint8Array }>();
+  const relabel = input.segments.map((seg, k) => {
+    let f = fmaps.get(seg.map);
+    if (!f) {
+      const fmap = compose(perm, seg.map);
+      f = { fmap, ...(bucketOfFinal ? { bucket: composeBytes(bucketOfFinal, fmap) } : {}) };
+      fmaps.set(seg.map, f);
     }
-    return { src: seg.src, dst: seg.dst, fmap };
+    return { src: seg.src, dst: seg.dst, ...f, ...(starts ? { starts: segmentStarts(starts, k, buckets) } : {}) };
   });
   await runner.run(splitByLength(relabel, slices).map((part) => ({ kind: "relabel" as const, task: { segments: part } })));
   fmaps.clear();
@@ -149,14 +158,30 @@ export async function buildGraph(
     const sources = finalU32(arcs);
     const fill = sharedU32(n);
     fill.set(inOffsets.subarray(0, n));
-    const cuts = balancedCuts((v) => inOffsets[v], n, slices);
+    // Each slice does a run of buckets (its own target ranges); unpartitioned, one range per slice.
+    const cuts = buckets > 1 ? bucketCuts : Uint32Array.from(balancedCuts((v) => inOffsets[v], n, slices));
+    const ranges = buckets > 1 ? buckets : slices;
+    const firstOf = (k: number) => Math.floor((k * ranges) / slices);
+    const dSegments = segments.map((seg, k) => (starts ? { ...seg, starts: segmentStarts(starts, k, buckets) } : seg));
     // Repeats are counted per node only when duplicates merge (the degrees then count them once).
     const inDistinct = merge ? sharedU32(n) : null;
-    const dupOut = cuts.slice(0, -1).map(() => (merge ? sharedU32(n) : null));
+    const dupOut = Array.from({ length: slices }, () => (merge ? sharedU32(n) : null));
     const dupsBySlice = await runner.run(
-      cuts.slice(0, -1).map((vLo, k) => ({
+      dupOut.map((own, k) => ({
         kind: "d" as const,
-        task: { segments, vLo, vHi: cuts[k + 1], dropSelf, both, inOffsets, fill, sources, inDistinct, dupOut: dupOut[k] },
+        task: {
+          segments: dSegments,
+          cuts,
+          first: firstOf(k),
+          last: firstOf(k + 1),
+          dropSelf,
+          both,
+          inOffsets,
+          fill,
+          sources,
+          inDistinct,
+          dupOut: own,
+        },
       })),
     );
     const dups = dupsBySlice.reduce((a, b) => a + b, 0);
@@ -252,6 +277,21 @@ export async function buildGraph(
     ...(heap ? { heap } : {}),
   };
   return { graph, report: reportOf(merged) };
+}
+
+/**
+ * Target buckets of the partitioned build: in-lists of about `bytes` each (half the L2 cache of the machines we
+ * measure on, so a bucket's lists and its gathered arcs stay in cache), at most 256 (a byte per stored value), and at
+ * least 4 per slice or none: smaller graphs scatter list by list.
+ */
+const BUCKET_BYTES = 1 << 19;
+function bucketCount(arcs: number, slices: number, bytes: number): number {
+  const b = Math.min(256, Math.ceil((arcs * 4) / bytes));
+  return b >= 4 * slices ? b : 1;
+}
+
+function segmentStarts(starts: Uint32Array, k: number, buckets: number): Uint32Array {
+  return starts.subarray(k * (buckets + 1), (k + 1) * (buckets + 1));
 }
 
 function lengths(offsets: Uint32Array): Uint32Array {
@@ -369,6 +409,12 @@ function identity(n: number): Uint32Array {
 
 function compose(outer: Uint32Array, inner: Uint32Array): Uint32Array {
   const r = sharedU32(inner.length);
+  for (let i = 0; i < inner.length; i++) r[i] = outer[inner[i]];
+  return r;
+}
+
+function composeBytes(outer: Uint8Array, inner: Uint32Array): Uint8Array {
+  const r = new Uint8Array(new SharedArrayBuffer(inner.length));
   for (let i = 0; i < inner.length; i++) r[i] = outer[inner[i]];
   return r;
 }

@@ -34,6 +34,8 @@ export interface IngestRun {
   duplicateLayout?: "weights" | "repeats";
   /** Smallest graph put on a shared heap (see BuildPolicy). */
   heapMinBytes?: number;
+  /** Bytes of in-lists per target bucket of the build (see BuildPolicy). */
+  bucketBytes?: number;
   onProgress?: (p: IngestProgress) => void;
   /** Number ids through hash tables even when a direct table would do (tests compare both paths). */
   hashIds?: boolean;
@@ -162,6 +164,7 @@ export async function ingestEdgeFile(path: string, options: Partial<GraphOptions
       renumber: run.renumber ?? true,
       duplicateLayout: run.duplicateLayout,
       heapMinBytes: run.heapMinBytes,
+      bucketBytes: run.bucketBytes,
       },
       runner,
     );

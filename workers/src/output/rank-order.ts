@@ -1,7 +1,15 @@
 // Rank order of a score vector: score descending, ties by ascending dense id.
 
-const RADIX_BITS = 16;
-const RADIX = 1 << RADIX_BITS;
+/** Digits of 11, 11 and 10 bits per 32-bit word: at most 2048 counters, so each pass's scatter stays in cache. */
+const DIGITS: ReadonlyArray<{ word: 0 | 1; shift: number; mask: number }> = [
+  { word: 0, shift: 0, mask: 0x7ff },
+  { word: 0, shift: 11, mask: 0x7ff },
+  { word: 0, shift: 22, mask: 0x3ff },
+  { word: 1, shift: 0, mask: 0x7ff },
+  { word: 1, shift: 11, mask: 0x7ff },
+  { word: 1, shift: 22, mask: 0x3ff },
+];
+const SLOTS = 2048;
 
 /**
  * order[i] = the dense id at rank i + 1. LSD radix sort on the float64 bits mapped to a descending unsigned key
@@ -31,7 +39,7 @@ export function rankOrder(scores: Float64Array): Uint32Array {
 
 /**
  * order[s] = index of the s-th smallest 64-bit key (hi[i], lo[i]), ties by ascending index: stable LSD radix sort
- * over four 16-bit digits, O(n). Consumes hi and lo (they are reordered in place of scratch).
+ * over six digits of at most 11 bits, O(n). Consumes hi and lo (they are reordered in place of scratch).
  * @example radixOrder64(Uint32Array.of(0, 0), Uint32Array.of(5, 2)) // [1, 0]
  */
 export function radixOrder64(hiKeys: Uint32Array, loKeys: Uint32Array): Uint32Array {
@@ -39,26 +47,39 @@ export function radixOrder64(hiKeys: Uint32Array, loKeys: Uint32Array): Uint32Ar
   let hi: Uint32Array = hiKeys;
   let lo: Uint32Array = loKeys;
   // Shared memory: the order is handed to worker threads that format score files.
-  let idx = new Uint32Array(new SharedArrayBuffer(4 * n));
+  let idx: Uint32Array = new Uint32Array(new SharedArrayBuffer(4 * n));
   for (let i = 0; i < n; i++) idx[i] = i;
-  let hi2: Uint32Array = new Uint32Array(n);
-  let lo2: Uint32Array = new Uint32Array(n);
-  let idx2 = new Uint32Array(new SharedArrayBuffer(4 * n));
-  const count = new Uint32Array(RADIX);
-  for (let pass = 0; pass < 4; pass++) {
-    const src = pass < 2 ? lo : hi;
-    const shift = (pass & 1) * RADIX_BITS;
-    count.fill(0);
-    for (let i = 0; i < n; i++) count[(src[i] >>> shift) & (RADIX - 1)]++;
-    if (n > 0 && count[(src[0] >>> shift) & (RADIX - 1)] === n) continue;
+  // Every digit's histogram in one read; a digit all keys share needs no pass.
+  const counts = new Uint32Array(DIGITS.length * SLOTS);
+  for (let i = 0; i < n; i++) {
+    const l = lo[i];
+    const h = hi[i];
+    counts[l & 0x7ff]++;
+    counts[SLOTS + ((l >>> 11) & 0x7ff)]++;
+    counts[2 * SLOTS + (l >>> 22)]++;
+    counts[3 * SLOTS + (h & 0x7ff)]++;
+    counts[4 * SLOTS + ((h >>> 11) & 0x7ff)]++;
+    counts[5 * SLOTS + (h >>> 22)]++;
+  }
+  let hi2: Uint32Array | null = null;
+  let lo2: Uint32Array | null = null;
+  let idx2: Uint32Array | null = null;
+  for (let d = 0; d < DIGITS.length; d++) {
+    const { word, shift, mask } = DIGITS[d];
+    const count = counts.subarray(d * SLOTS, (d + 1) * SLOTS);
+    const keys = word === 0 ? lo : hi;
+    if (n === 0 || count[(keys[0] >>> shift) & mask] === n) continue;
     let sum = 0;
-    for (let d = 0; d < RADIX; d++) {
-      const c = count[d];
-      count[d] = sum;
+    for (let k = 0; k <= mask; k++) {
+      const c = count[k];
+      count[k] = sum;
       sum += c;
     }
+    hi2 ??= new Uint32Array(n);
+    lo2 ??= new Uint32Array(n);
+    idx2 ??= new Uint32Array(new SharedArrayBuffer(4 * n));
     for (let i = 0; i < n; i++) {
-      const at = count[(src[i] >>> shift) & (RADIX - 1)]++;
+      const at = count[(keys[i] >>> shift) & mask]++;
       hi2[at] = hi[i];
       lo2[at] = lo[i];
       idx2[at] = idx[i];

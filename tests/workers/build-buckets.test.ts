@@ -1,0 +1,66 @@
+// The directed unweighted build partitions arcs by target bucket and orders each bucket by a radix sort; smaller
+// graphs (and undirected ones) scatter list by list and sort each list. Both must give the same graph, bit for bit,
+// for every policy and thread count.
+import { afterAll, describe, expect, it } from "vitest";
+import type { Graph } from "../../workers/src/core/graph";
+import { ingestEdgeFile, type IngestRun } from "../../workers/src/ingest/ingest";
+import { TempFiles } from "../fixtures/edges/edge-files";
+import { prng, sameBits } from "./rank-test-graphs";
+
+const files = new TempFiles();
+afterAll(() => files.remove());
+
+/** Skewed random lines with repeats, self-loops and a few hubs, in no particular order. */
+function edgeText(seed: number, n: number, lines: number): string {
+  const rnd = prng(seed);
+  const out: string[] = [];
+  for (let i = 0; i < lines; i++) {
+    const a = rnd();
+    const b = rnd();
+    const u = 7 + Math.floor(a * a * n);
+    const v = rnd() < 0.02 ? u : 7 + Math.floor(b * b * b * n);
+    out.push(`${u} ${v}`);
+    if (rnd() < 0.1) out.push(`${u} ${v}`);
+  }
+  return `${out.join("\n")}\n`;
+}
+
+function sameGraph(a: Graph, b: Graph): void {
+  expect(b.n).toBe(a.n);
+  expect(b.m).toBe(a.m);
+  expect(b.mergedEdges).toBe(a.mergedEdges);
+  expect(Buffer.from(b.inOffsets.buffer, b.inOffsets.byteOffset, b.inOffsets.byteLength).equals(Buffer.from(a.inOffsets.buffer, a.inOffsets.byteOffset, a.inOffsets.byteLength))).toBe(true);
+  expect(Buffer.from(b.sources.buffer, b.sources.byteOffset, b.sources.byteLength).equals(Buffer.from(a.sources.buffer, a.sources.byteOffset, a.sources.byteLength))).toBe(true);
+  expect(sameBits(a.outWeight, b.outWeight)).toBe(true);
+  if (a.weights === null) expect(b.weights).toBeNull();
+  else expect(sameBits(a.weights, b.weights as Float64Array)).toBe(true);
+  expect(b.ids).toEqual(a.ids);
+}
+
+describe("bucketed build", () => {
+  const path = files.write(edgeText(5, 20_000, 60_000));
+  const small = { chunkBytes: 16 * 1024, parallelMinBytes: 0 };
+
+  for (const selfLoops of ["drop", "keep"] as const) {
+    for (const duplicates of ["merge", "keep"] as const) {
+      it(`equals the list-by-list build: self-loops ${selfLoops}, duplicates ${duplicates}`, async () => {
+        const ingest = (run: IngestRun) => ingestEdgeFile(path, { selfLoops, duplicates }, { duplicateLayout: "repeats", ...run });
+        const plain = await ingest({ bucketBytes: Infinity, limits: { threads: 1 } });
+        for (const threads of [1, 2]) {
+          // 4 KiB buckets: dozens of them, several per slice, many spanning segments of many chunks.
+          const bucketed = await ingest({ bucketBytes: 4096, limits: { threads, ...small } });
+          sameGraph(plain.graph, bucketed.graph);
+          expect(bucketed.stats).toEqual({ ...plain.stats, threads: bucketed.stats.threads });
+        }
+      });
+    }
+  }
+
+  it("equals it with duplicates merged into weights too", async () => {
+    const ingest = (run: IngestRun) => ingestEdgeFile(path, {}, { duplicateLayout: "weights", ...run });
+    const plain = await ingest({ bucketBytes: Infinity, limits: { threads: 1 } });
+    const bucketed = await ingest({ bucketBytes: 4096, limits: { threads: 2, ...small } });
+    expect(plain.graph.weights).not.toBeNull();
+    sameGraph(plain.graph, bucketed.graph);
+  });
+});
