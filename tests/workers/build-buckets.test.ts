@@ -1,9 +1,11 @@
-// The directed unweighted build partitions arcs by target bucket and orders each bucket by a radix sort; smaller
-// graphs (and undirected ones) scatter list by list and sort each list. Both must give the same graph, bit for bit,
-// for every policy and thread count.
+// The directed unweighted build partitions arcs by target bucket and orders each bucket by a radix sort (in
+// WebAssembly when the graph lives on a shared heap, else in JS); smaller graphs (and undirected ones) scatter list by
+// list and sort each list. All must give the same graph, bit for bit, for every policy and thread count.
+import { readFile } from "node:fs/promises";
 import { afterAll, describe, expect, it } from "vitest";
 import type { Graph } from "../../workers/src/core/graph";
 import { ingestEdgeFile, type IngestRun } from "../../workers/src/ingest/ingest";
+import { compileAssembly } from "../fixtures/assembly";
 import { TempFiles } from "../fixtures/edges/edge-files";
 import { prng, sameBits } from "./rank-test-graphs";
 
@@ -37,6 +39,13 @@ function sameGraph(a: Graph, b: Graph): void {
   expect(b.ids).toEqual(a.ids);
 }
 
+describe("committed bucket-order binary", () => {
+  it("matches a fresh compile of workers/assembly/order-lists.ts (npm run build:wasm)", async () => {
+    const fresh = await compileAssembly("workers/assembly/order-lists.ts", "lists");
+    expect(Buffer.compare(Buffer.from(fresh), await readFile(new URL("../../workers/assembly/order-lists.wasm", import.meta.url)))).toBe(0);
+  });
+});
+
 describe("bucketed build", () => {
   const path = files.write(edgeText(5, 20_000, 60_000));
   const small = { chunkBytes: 16 * 1024, parallelMinBytes: 0 };
@@ -47,10 +56,14 @@ describe("bucketed build", () => {
         const ingest = (run: IngestRun) => ingestEdgeFile(path, { selfLoops, duplicates }, { duplicateLayout: "repeats", ...run });
         const plain = await ingest({ bucketBytes: Infinity, limits: { threads: 1 } });
         for (const threads of [1, 2]) {
-          // 4 KiB buckets: dozens of them, several per slice, many spanning segments of many chunks.
-          const bucketed = await ingest({ bucketBytes: 4096, limits: { threads, ...small } });
-          sameGraph(plain.graph, bucketed.graph);
-          expect(bucketed.stats).toEqual({ ...plain.stats, threads: bucketed.stats.threads });
+          // 4 KiB buckets: dozens of them, several per slice, many spanning segments of many chunks. On a heap the
+          // buckets are ordered in WebAssembly, in the space the graph's runs borrow later.
+          for (const heapMinBytes of [0, Infinity]) {
+            const bucketed = await ingest({ bucketBytes: 4096, heapMinBytes, limits: { threads, ...small } });
+            expect(bucketed.graph.heap !== undefined).toBe(heapMinBytes === 0);
+            sameGraph(plain.graph, bucketed.graph);
+            expect(bucketed.stats).toEqual({ ...plain.stats, threads: bucketed.stats.threads });
+          }
         }
       });
     }
@@ -59,8 +72,10 @@ describe("bucketed build", () => {
   it("equals it with duplicates merged into weights too", async () => {
     const ingest = (run: IngestRun) => ingestEdgeFile(path, {}, { duplicateLayout: "weights", ...run });
     const plain = await ingest({ bucketBytes: Infinity, limits: { threads: 1 } });
-    const bucketed = await ingest({ bucketBytes: 4096, limits: { threads: 2, ...small } });
     expect(plain.graph.weights).not.toBeNull();
-    sameGraph(plain.graph, bucketed.graph);
+    for (const heapMinBytes of [0, Infinity]) {
+      const bucketed = await ingest({ bucketBytes: 4096, heapMinBytes, limits: { threads: 2, ...small } });
+      sameGraph(plain.graph, bucketed.graph);
+    }
   });
 });

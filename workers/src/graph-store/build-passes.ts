@@ -241,7 +241,33 @@ export interface PassD {
   inDistinct: Uint32Array | null;
   /** Out, this slice's own, when set: dupOut[u] += 1 for every repeat of source u in the slice's lists. */
   dupOut: Uint32Array | null;
+  /** Order partitioned buckets in WebAssembly (workers/assembly/order-lists.ts) instead of JS. */
+  lists?: ListsWasm;
 }
+
+/**
+ * The WebAssembly bucket orderer and where it works: `memory` holds sources, inOffsets, fill and (when set)
+ * inDistinct and dupOut, and this slice's own scratch of `scratchArcs` arcs at byte offset `scratch`
+ * (listsScratchBytes long).
+ */
+export interface ListsWasm {
+  module: WebAssembly.Module;
+  memory: WebAssembly.Memory;
+  scratch: number;
+  scratchArcs: number;
+}
+
+/** Bytes of one slice's scratch for buckets of at most `arcs` arcs: two pairs of arc arrays and the digit counts. */
+export function listsScratchBytes(arcs: number): number {
+  return 16 * arcs + 4 * (COUNT_SLOTS + 16);
+}
+
+const COUNT_SLOTS = (1 << 11) + 1;
+
+type OrderBucket = (
+  us: number, vs: number, us2: number, vs2: number, k: number, bits: number, counts: number,
+  fill: number, inOffsets: number, sources: number, inDistinct: number, dupOut: number,
+) => number;
 
 const INSERTION_SORT_MAX = 48;
 
@@ -249,11 +275,13 @@ const INSERTION_SORT_MAX = 48;
 export function scatterByTarget(t: PassD): number {
   let dups = 0;
   const partitioned = !t.both && t.segments.every((seg) => seg.starts !== undefined);
+  const order = partitioned && t.lists ? wasmOrder(t, t.lists) : null;
   for (let j = t.first; j < t.last; j++) {
     const vLo = t.cuts[j];
     const vHi = t.cuts[j + 1];
     if (partitioned) {
-      dups += placeSorted(t, j);
+      dups += order ? order(j) : placeSorted(t, j);
+      checkFilled(t, vLo, vHi);
       continue;
     }
     for (const seg of t.segments) scatterRange(t, seg, 0, seg.src.length, vLo, vHi);
@@ -264,22 +292,9 @@ export function scatterByTarget(t: PassD): number {
 
 let pairs = { u: new Uint32Array(0), v: new Uint32Array(0), u2: new Uint32Array(0), v2: new Uint32Array(0) };
 
-/**
- * The in-lists of bucket j without a comparison sort: gather the bucket's arcs (a few hundred KB), order them by
- * source with a least-significant-digit radix sort, then place them in that order, so every list fills already
- * sorted and a repeat lands right after its equal.
- */
-function placeSorted(t: PassD, j: number): number {
-  const { dropSelf, fill, sources, inOffsets, inDistinct, dupOut } = t;
-  const vLo = t.cuts[j];
-  const vHi = t.cuts[j + 1];
-  let total = 0;
-  for (const seg of t.segments) total += (seg.starts as Uint32Array)[j + 1] - (seg.starts as Uint32Array)[j];
-  if (pairs.u.length < total) {
-    const size = Math.max(total, Math.ceil(1.25 * pairs.u.length));
-    pairs = { u: new Uint32Array(size), v: new Uint32Array(size), u2: new Uint32Array(size), v2: new Uint32Array(size) };
-  }
-  let { u: us, v: vs, u2: us2, v2: vs2 } = pairs;
+/** Bucket j's arcs into us/vs (self-loops dropped as the policy says); returns their number. */
+function gather(t: PassD, j: number, us: Uint32Array, vs: Uint32Array): number {
+  const dropSelf = t.dropSelf;
   let k = 0;
   for (const seg of t.segments) {
     const starts = seg.starts as Uint32Array;
@@ -294,9 +309,36 @@ function placeSorted(t: PassD, j: number): number {
       k++;
     }
   }
+  return k;
+}
+
+function bucketArcs(t: PassD, j: number): number {
+  let total = 0;
+  for (const seg of t.segments) total += (seg.starts as Uint32Array)[j + 1] - (seg.starts as Uint32Array)[j];
+  return total;
+}
+
+/** Bits of the largest source id: the radix sorts' key width. */
+function sourceBits(t: PassD): number {
+  return Math.max(1, 32 - Math.clz32(Math.max(1, t.inOffsets.length - 2)));
+}
+
+/**
+ * The in-lists of bucket j without a comparison sort: gather the bucket's arcs (a few hundred KB), order them by
+ * source with a least-significant-digit radix sort, then place them in that order, so every list fills already
+ * sorted and a repeat lands right after its equal. Returns the repeats.
+ */
+function placeSorted(t: PassD, j: number): number {
+  const { fill, sources, inOffsets, inDistinct, dupOut } = t;
+  const total = bucketArcs(t, j);
+  if (pairs.u.length < total) {
+    const size = Math.max(total, Math.ceil(1.25 * pairs.u.length));
+    pairs = { u: new Uint32Array(size), v: new Uint32Array(size), u2: new Uint32Array(size), v2: new Uint32Array(size) };
+  }
+  let { u: us, v: vs, u2: us2, v2: vs2 } = pairs;
+  const k = gather(t, j, us, vs);
   // Digits of at most 11 bits over the bits of the largest source id.
-  const n = inOffsets.length - 1;
-  const bits = Math.max(1, 32 - Math.clz32(Math.max(1, n - 1)));
+  const bits = sourceBits(t);
   const passes = Math.ceil(bits / 11);
   const width = Math.ceil(bits / passes);
   const mask = (1 << width) - 1;
@@ -304,7 +346,7 @@ function placeSorted(t: PassD, j: number): number {
   for (let p = 0, shift = 0; p < passes; p++, shift += width) {
     count.fill(0);
     for (let i = 0; i < k; i++) count[((us[i] >>> shift) & mask) + 1]++;
-    if (count[(((k > 0 ? us[0] : 0) >>> shift) & mask) + 1] === k) continue;
+    if (k > 0 && count[((us[0] >>> shift) & mask) + 1] === k) continue;
     for (let d = 0; d <= mask; d++) count[d + 1] += count[d];
     for (let i = 0; i < k; i++) {
       const u = us[i];
@@ -327,10 +369,35 @@ function placeSorted(t: PassD, j: number): number {
     sources[at] = u;
     fill[v] = at + 1;
   }
+  return dups;
+}
+
+/** placeSorted in WebAssembly: the gather here, into the slice's scratch; the ordering in the module. */
+function wasmOrder(t: PassD, lists: ListsWasm): (j: number) => number {
+  const { memory, scratch, scratchArcs: cap } = lists;
+  const order = new WebAssembly.Instance(lists.module, { env: { memory } }).exports.orderBucket as OrderBucket;
+  const buffer = memory.buffer as unknown as SharedArrayBuffer;
+  const at = (a: Uint32Array | null) => {
+    if (a === null) return 0;
+    if (a.buffer !== buffer) throw new Error("build: the WebAssembly bucket order needs its arrays in its memory");
+    return a.byteOffset;
+  };
+  const us = new Uint32Array(buffer, scratch, cap);
+  const vs = new Uint32Array(buffer, scratch + 4 * cap, cap);
+  const bits = sourceBits(t);
+  const fixed = [at(t.fill), at(t.inOffsets), at(t.sources), at(t.inDistinct), at(t.dupOut)] as const;
+  return (j) => {
+    // At most the bucket's in-arcs (a bug past them would be dropped by the views and caught by checkFilled).
+    const k = gather(t, j, us, vs);
+    return order(scratch, scratch + 4 * cap, scratch + 8 * cap, scratch + 12 * cap, k, bits, scratch + 16 * cap, ...fixed);
+  };
+}
+
+function checkFilled(t: PassD, vLo: number, vHi: number): void {
+  const { fill, inOffsets } = t;
   for (let v = vLo; v < vHi; v++) {
     if (fill[v] !== inOffsets[v + 1]) throw new Error(`build: in-list of node ${v} got ${fill[v] - inOffsets[v]} arcs, expected ${inOffsets[v + 1] - inOffsets[v]}`);
   }
-  return dups;
 }
 
 function scatterRange(t: PassD, seg: PassSegment, lo: number, hi: number, vLo: number, vHi: number): void {
@@ -396,6 +463,27 @@ function sortLists(t: PassD, vLo: number, vHi: number): number {
     if (inDistinct !== null) inDistinct[v] = b - a - (dups - before);
   }
   return dups;
+}
+
+/**
+ * Touch pass: one write per 4 KiB page of [from, to) of a buffer nobody else writes yet, to fault the pages in, until
+ * stop[0] is set (then whoever writes there first faults in the rest). Returns the bytes touched.
+ */
+export interface PassTouch {
+  buffer: SharedArrayBuffer;
+  from: number;
+  to: number;
+  stop: Int32Array;
+}
+
+export function touchPages(t: PassTouch): number {
+  const bytes = new Uint8Array(t.buffer, t.from, t.to - t.from);
+  let i = 0;
+  while (i < bytes.length && Atomics.load(t.stop, 0) === 0) {
+    const end = Math.min(bytes.length, i + (64 << 12));
+    for (; i < end; i += 4096) bytes[i] = 0;
+  }
+  return Math.min(i, bytes.length);
 }
 
 /** Counting pass of the direct numbering: lines per stored value as source, as target, and as self-loop. */

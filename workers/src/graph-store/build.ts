@@ -4,22 +4,27 @@
 // lines and pages), ties by original id; with renumber off, by original id alone. Either way the graph depends only on
 // the set of input lines. Duplicate arcs stay adjacent in file order, so merged weights are summed in file order.
 
+import { readFileSync } from "node:fs";
 import type { Graph, NodeIds } from "../core/graph";
 import type { ArcCounts, CanonicalEdges } from "../ingest/assemble";
 import {
   balancedCuts,
   countValues,
   fillInLists,
+  listsScratchBytes,
   NO_SOURCE,
   relabelArcs,
   scatterBySource,
   scatterByTarget,
+  touchPages,
+  type ListsWasm,
   type PassA,
   type PassB,
   type PassCount,
   type PassD,
   type PassRelabel,
   type PassSegment,
+  type PassTouch,
 } from "./build-passes";
 import { graphBytes, runBytes, SharedHeap } from "../core/shared-heap";
 import { HEAP_MIN_BYTES, sharedF64, sharedU32 } from "./shared";
@@ -62,7 +67,8 @@ export type PassTask =
   | { kind: "a"; task: PassA }
   | { kind: "b"; task: PassB }
   | { kind: "d"; task: PassD }
-  | { kind: "relabel"; task: PassRelabel };
+  | { kind: "relabel"; task: PassRelabel }
+  | { kind: "touch"; task: PassTouch };
 
 /** Runs one pass's slices (on worker threads, or here); resolves with each slice's result (merged arcs for pass B). */
 export interface PassRunner {
@@ -89,13 +95,50 @@ export function runPass(t: PassTask): number {
     relabelArcs(t.task);
     return 0;
   }
+  if (t.kind === "touch") return touchPages(t.task);
   return fillInLists(t.task);
+}
+
+/**
+ * A big graph's heap, made before its node count is known, with the sources carved first: their pages are faulted in
+ * on an idle worker thread while this thread numbers the nodes (fresh memory is slow to fault in; see
+ * docs/decisions/004-graph-memory.md). The build calls stop() when it needs the threads, and nothing may write the
+ * sources before `touched` settles.
+ */
+export interface GraphReserve {
+  heap: SharedHeap;
+  sources: Uint32Array;
+  stop(): void;
+  touched: Promise<unknown>;
+}
+
+/**
+ * The heap for a graph of at most `nodes` nodes and exactly `arcs` arcs (see BuildPolicy.heapMinBytes for when it
+ * gets one), or null. With a runner of worker threads, the sources' pages start being faulted in on one of them.
+ */
+export function reserveGraph(nodes: number, arcs: number, wide: boolean, policy: BuildPolicy, runner: PassRunner): GraphReserve | null {
+  const bytes = graphBytes(nodes, arcs, wide);
+  if (bytes < (policy.heapMinBytes ?? HEAP_MIN_BYTES) || arcs >= 2 ** 32) return null;
+  const heap = SharedHeap.create(bytes + runBytes(nodes));
+  if (!heap) return null;
+  const sources = heap.u32(arcs);
+  const stop = new Int32Array(new SharedArrayBuffer(4));
+  const from = sources.byteOffset;
+  const to = from + sources.byteLength;
+  let touched: Promise<unknown> = Promise.resolve();
+  if (runner !== LOCAL_RUNNER && to > from) {
+    touched = runner.run([{ kind: "touch", task: { buffer: heap.buffer, from, to, stop } }]);
+    // Whoever awaits it sees a failure; left alone (the ingest failed first), it must not surface on its own.
+    touched.catch(() => {});
+  }
+  return { heap, sources, stop: () => Atomics.store(stop, 0, 1), touched };
 }
 
 export async function buildGraph(
   input: CanonicalEdges,
   policy: BuildPolicy,
   runner: PassRunner = LOCAL_RUNNER,
+  reserve: GraphReserve | null = null,
 ): Promise<{ graph: Graph; report: BuildReport; degrees?: NodeDegrees }> {
   const n = input.n;
   const dropSelf = policy.selfLoops === "drop";
@@ -107,22 +150,21 @@ export async function buildGraph(
   const arcs = counts.arcs;
   if (arcs >= 2 ** 32) throw new RangeError(`too many edges for 32-bit offsets: ${arcs}`);
   const slices = Math.max(1, Math.min(runner.slices, n));
+  if (reserve && reserve.sources.length !== arcs) {
+    throw new Error(`build: ${reserve.sources.length} arcs were reserved, ${arcs} counted`);
+  }
   const bytes = graphBytes(n, arcs, weighted || merge);
-  const heap = bytes >= (policy.heapMinBytes ?? HEAP_MIN_BYTES) ? SharedHeap.create(bytes + runBytes(n)) : null;
+  const heap = reserve ? reserve.heap : bytes >= (policy.heapMinBytes ?? HEAP_MIN_BYTES) ? SharedHeap.create(bytes + runBytes(n)) : null;
   const finalU32 = (length: number) => (heap ? heap.u32(length) : sharedU32(length));
   const finalF64 = (length: number) => (heap ? heap.f64(length) : sharedF64(length));
+  // The sources come first on the heap (see GraphReserve); their pages may still be being faulted in.
+  const sources = reserve ? reserve.sources : finalU32(arcs);
+  const sourcesReady = reserve ? reserve.touched : Promise.resolve();
 
   const perm = policy.renumber ? hubsFirst(counts.out) : identity(n);
-  const outStart = sharedU32(n + 1);
   const inOffsets = finalU32(n + 1);
-  for (let c = 0; c < n; c++) {
-    outStart[perm[c] + 1] = counts.out[c];
-    inOffsets[perm[c] + 1] = counts.in[c];
-  }
-  for (let u = 0; u < n; u++) {
-    outStart[u + 1] += outStart[u];
-    inOffsets[u + 1] += inOffsets[u];
-  }
+  for (let c = 0; c < n; c++) inOffsets[perm[c] + 1] = counts.in[c];
+  for (let v = 0; v < n; v++) inOffsets[v + 1] += inOffsets[v];
 
   // Relabel the parsed arcs in place to final ids, segments split across slices by arc count. The parsed arrays are
   // the build's own from here on. For the direct unweighted build the same pass partitions each segment by target
@@ -142,6 +184,7 @@ export async function buildGraph(
     }
     return { src: seg.src, dst: seg.dst, ...f, ...(starts ? { starts: segmentStarts(starts, k, buckets) } : {}) };
   });
+  reserve?.stop();
   await runner.run(splitByLength(relabel, slices).map((part) => ({ kind: "relabel" as const, task: { segments: part } })));
   fmaps.clear();
   const segments: PassSegment[] = input.segments.map((seg) => ({ src: seg.src, dst: seg.dst, weight: seg.weight }));
@@ -155,17 +198,31 @@ export async function buildGraph(
 
   if (!weighted) {
     // Unweighted: arcs straight into their in-lists, lists sorted, duplicates counted; W_u = arc count.
-    const sources = finalU32(arcs);
-    const fill = sharedU32(n);
-    fill.set(inOffsets.subarray(0, n));
+    const outWeight = finalF64(n);
     // Each slice does a run of buckets (its own target ranges); unpartitioned, one range per slice.
     const cuts = buckets > 1 ? bucketCuts : Uint32Array.from(balancedCuts((v) => inOffsets[v], n, slices));
     const ranges = buckets > 1 ? buckets : slices;
     const firstOf = (k: number) => Math.floor((k * ranges) / slices);
     const dSegments = segments.map((seg, k) => (starts ? { ...seg, starts: segmentStarts(starts, k, buckets) } : seg));
+    // On a heap, the bucketed build works in the space a run borrows later (its pages are then faulted in already)
+    // and orders buckets in WebAssembly, when that space holds its arrays.
+    let maxBucket = 0;
+    for (let j = 0; j < buckets; j++) maxBucket = Math.max(maxBucket, inOffsets[cuts[j + 1]] - inOffsets[cuts[j]]);
+    const scratchBytes = listsScratchBytes(maxBucket);
+    const loanBytes = 4 * (n + 16) * (1 + (merge ? 1 + slices : 0)) + slices * (scratchBytes + 64);
+    const listsModule = heap && buckets > 1 && loanBytes <= heap.free ? orderListsModule() : null;
+    const loan = listsModule && heap ? heap.lend() : null;
+    const work = (length: number) => (loan ? loan.heap.u32(length) : sharedU32(length));
+    const fill = work(n);
+    fill.set(inOffsets.subarray(0, n));
     // Repeats are counted per node only when duplicates merge (the degrees then count them once).
-    const inDistinct = merge ? sharedU32(n) : null;
-    const dupOut = Array.from({ length: slices }, () => (merge ? sharedU32(n) : null));
+    const inDistinct = merge ? work(n) : null;
+    const dupOut = Array.from({ length: slices }, () => (merge ? work(n) : null));
+    const lists = (): ListsWasm | undefined =>
+      loan && listsModule
+        ? { module: listsModule, memory: loan.heap.memory, scratch: work(scratchBytes / 4).byteOffset, scratchArcs: maxBucket }
+        : undefined;
+    await sourcesReady;
     const dupsBySlice = await runner.run(
       dupOut.map((own, k) => ({
         kind: "d" as const,
@@ -181,11 +238,11 @@ export async function buildGraph(
           sources,
           inDistinct,
           dupOut: own,
+          lists: lists(),
         },
       })),
     );
     const dups = dupsBySlice.reduce((a, b) => a + b, 0);
-    const outWeight = finalF64(n);
     const outDegree = new Uint32Array(n);
     for (let c = 0; c < n; c++) outWeight[perm[c]] = counts.out[c];
     for (let u = 0; u < n; u++) {
@@ -193,8 +250,10 @@ export async function buildGraph(
       for (const slice of dupOut) if (slice !== null && dups > 0) d -= slice[u];
       outDegree[u] = d;
     }
-    // Degrees of the graph as the policy defines it: merged duplicates count once.
-    const degrees = { in: inDistinct ?? lengths(inOffsets), out: outDegree };
+    // Degrees of the graph as the policy defines it: merged duplicates count once. (Out of the borrowed space, which
+    // the graph's runs reuse.)
+    const degrees = { in: inDistinct ? Uint32Array.from(inDistinct) : lengths(inOffsets), out: outDegree };
+    loan?.release();
     const base = { n, inOffsets, outWeight, ids: ids(), ...(heap ? { heap } : {}) };
     if (!merge || dups === 0) {
       return { graph: { ...base, m: arcs, sources, weights: null }, report: reportOf(0), degrees };
@@ -208,6 +267,9 @@ export async function buildGraph(
   }
 
   // Weighted: pass A, sliced by canonical source ranges of about equal arc counts, then pass B.
+  const outStart = sharedU32(n + 1);
+  for (let c = 0; c < n; c++) outStart[perm[c] + 1] = counts.out[c];
+  for (let u = 0; u < n; u++) outStart[u + 1] += outStart[u];
   const bySrcDst = sharedU32(arcs);
   const bySrcW = sharedF64(arcs);
   const cursor = sharedU32(n);
@@ -234,7 +296,6 @@ export async function buildGraph(
 
   // Pass B, sliced by target ranges of about equal in-arc counts (and source ranges for the out-weights); duplicates
   // merge as they are placed.
-  const sources = finalU32(arcs);
   const weights = finalF64(arcs);
   const outWeight = finalF64(n);
   const fillLast = sharedU32(2 * n);
@@ -244,6 +305,7 @@ export async function buildGraph(
   }
   const vCuts = balancedCuts((v) => inOffsets[v], n, slices);
   const uCuts = balancedCuts((u) => outStart[u], n, slices);
+  await sourcesReady;
   const mergedBySlice = await runner.run(
     vCuts.slice(0, -1).map((vLo, k) => ({
       kind: "b" as const,
@@ -277,6 +339,14 @@ export async function buildGraph(
     ...(heap ? { heap } : {}),
   };
   return { graph, report: reportOf(merged) };
+}
+
+let listsCompiled: WebAssembly.Module | null = null;
+
+/** The bucket orderer (workers/assembly/order-lists.ts), compiled once. */
+function orderListsModule(): WebAssembly.Module {
+  listsCompiled ??= new WebAssembly.Module(readFileSync(new URL("../../assembly/order-lists.wasm", import.meta.url)));
+  return listsCompiled;
 }
 
 /**

@@ -65,10 +65,17 @@ export function commonMode(modes: IdMode[]): IdMode {
 }
 
 /** Canonical numbering for parts that are all "raw", all "int" or all "string". */
-export async function numberNodes(parts: ParsedPart[], policy: CountPolicy, runner: PassRunner = LOCAL_RUNNER): Promise<Numbering> {
+export async function numberNodes(
+  parts: ParsedPart[],
+  policy: CountPolicy,
+  runner: PassRunner = LOCAL_RUNNER,
+  /** Called once the worker threads are done with the numbering (the rest of it runs on this thread). */
+  onThreadsFree: () => void = () => {},
+): Promise<Numbering> {
   const mode = commonMode(parts.map((p) => p.mode));
   if (parts.some((p) => p.mode !== mode)) throw new Error("numberNodes: parts must share one id mode");
-  if (mode === "raw") return assembleRaw(parts, policy, runner);
+  if (mode === "raw") return assembleRaw(parts, policy, runner, onThreadsFree);
+  onThreadsFree();
   if (mode === "int") return assembleInt(parts);
   return assembleStrings(parts);
 }
@@ -79,7 +86,7 @@ export async function numberNodes(parts: ParsedPart[], policy: CountPolicy, runn
  * directed out = sources − dropped self-loops (in likewise); undirected out = in = sources + targets − self-loops
  * counted twice (dropped) or once (kept, an undirected self-loop is one arc).
  */
-async function assembleRaw(parts: ParsedPart[], policy: CountPolicy, runner: PassRunner): Promise<Numbering> {
+async function assembleRaw(parts: ParsedPart[], policy: CountPolicy, runner: PassRunner, onThreadsFree: () => void): Promise<Numbering> {
   const maxId = Math.max(-1, ...parts.map((p) => p.maxId));
   const edges = parts.reduce((s, p) => s + p.edges, 0);
   const hasSelf = parts.some((p) => p.counts.selfLoops > 0);
@@ -93,6 +100,7 @@ async function assembleRaw(parts: ParsedPart[], policy: CountPolicy, runner: Pas
   const bySlice: Array<Array<{ src: Uint32Array; dst: Uint32Array }>> = tables.map(() => []);
   parts.forEach((p, k) => bySlice[k % slices].push({ src: p.src, dst: p.dst }));
   await runner.run(tables.map((t, k) => ({ kind: "count" as const, task: { edges: bySlice[k], ...t } })));
+  onThreadsFree();
   const { outRaw, inRaw, selfRaw } = tables[0];
   for (const t of tables.slice(1)) {
     for (let x = 0; x <= maxId; x++) {

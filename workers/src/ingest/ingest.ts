@@ -8,7 +8,7 @@
 
 import { availableParallelism } from "node:os";
 import type { Graph } from "../core/graph";
-import { buildGraph, LOCAL_RUNNER, type PassRunner } from "../graph-store/build";
+import { buildGraph, LOCAL_RUNNER, reserveGraph, type BuildPolicy, type GraphReserve, type PassRunner } from "../graph-store/build";
 import { commonMode, directLimit, numberNodes, type CanonicalEdges, type EdgeSegment } from "./assemble";
 import { describeBadLine, IngestError, type BadLine } from "./errors";
 import { LocalLane, WorkerLane, type ChunkAck, type Lane } from "./lanes";
@@ -137,7 +137,27 @@ export async function ingestEdgeFile(path: string, options: Partial<GraphOptions
 
     run.onProgress?.({ phase: "build", bytesRead: reader.bytesRead, totalBytes: reader.size, rows: counts.lines });
     const runner = workerCount > 0 ? laneRunner(lanes.slice(0, workerCount)) : LOCAL_RUNNER;
-    const numbering = await numberNodes(parts, { directed: opts.directed, dropSelfLoops: opts.selfLoops === "drop" }, runner);
+    // A big graph's heap is made as soon as the threads are free, so that they fault in its pages while this thread
+    // numbers the nodes. Its size: at most every stored id a node, and the arcs the policies leave.
+    const dropSelf = opts.selfLoops === "drop";
+    const arcs = opts.directed
+      ? totalEdges - (dropSelf ? counts.selfLoops : 0)
+      : 2 * totalEdges - counts.selfLoops * (dropSelf ? 2 : 1);
+    const nodesAtMost = parts.reduce((s, p) => s + (mode === "raw" ? 0 : p.nodes), mode === "raw" ? maxId + 1 : 0);
+    const wide = parts.some((p) => p.weight !== null) || opts.duplicates === "merge";
+    const buildPolicy: BuildPolicy = {
+      directed: opts.directed,
+      selfLoops: opts.selfLoops,
+      duplicates: opts.duplicates,
+      renumber: run.renumber ?? true,
+      duplicateLayout: run.duplicateLayout,
+      heapMinBytes: run.heapMinBytes,
+      bucketBytes: run.bucketBytes,
+    };
+    let reserve: GraphReserve | null = null;
+    const numbering = await numberNodes(parts, { directed: opts.directed, dropSelfLoops: dropSelf }, runner, () => {
+      reserve = reserveGraph(nodesAtMost, arcs, wide, buildPolicy, runner);
+    });
     const segments: EdgeSegment[] = acks.map((a) => {
       const k = partOf[a.seq];
       const part = parts[k];
@@ -155,19 +175,7 @@ export async function ingestEdgeFile(path: string, options: Partial<GraphOptions
       degrees: numbering.degrees,
     };
     const tNumbered = performance.now();
-    const { graph, report, degrees: built } = await buildGraph(
-      canonical,
-      {
-      directed: opts.directed,
-      selfLoops: opts.selfLoops,
-      duplicates: opts.duplicates,
-      renumber: run.renumber ?? true,
-      duplicateLayout: run.duplicateLayout,
-      heapMinBytes: run.heapMinBytes,
-      bucketBytes: run.bucketBytes,
-      },
-      runner,
-    );
+    const { graph, report, degrees: built } = await buildGraph(canonical, buildPolicy, runner, reserve);
     const degrees = degreeStats(graph, built);
     const tBuilt = performance.now();
 
