@@ -80,7 +80,8 @@ export async function rankCommand(file: string, o: RankCommandOptions): Promise<
   try {
     return await rankWith(pool, file, o, t0, format, threads, seedList);
   } finally {
-    await pool.close();
+    // The command exits right after its report: the threads need not be torn down first.
+    pool.close().catch(() => {});
   }
 }
 
@@ -150,18 +151,24 @@ async function rankWith(
   const tIterated = performance.now();
 
   if (o.out && format) {
-    await writeScores(o.out, format, graph.ids, result.scores, {
-      damping: String(o.damping),
-      tolerance: String(o.tolerance),
-      iterations: String(result.iterations),
-      residual: String(result.residual),
-      errorBound: String(result.errorBound),
-      stopReason: result.stopReason,
-      weighted: String(o.weighted),
-      dangling: o.dangling,
-      teleport: seeds ? "seeds" : "uniform",
-      inputFingerprint: stats.fingerprint,
-    }, { rowPool: pool });
+    // The rank order's arrays come from the graph heap's run space when the run gave it back: its pages are in memory.
+    const loan = graph.heap?.lend() ?? null;
+    try {
+      await writeScores(o.out, format, graph.ids, result.scores, {
+        damping: String(o.damping),
+        tolerance: String(o.tolerance),
+        iterations: String(result.iterations),
+        residual: String(result.residual),
+        errorBound: String(result.errorBound),
+        stopReason: result.stopReason,
+        weighted: String(o.weighted),
+        dangling: o.dangling,
+        teleport: seeds ? "seeds" : "uniform",
+        inputFingerprint: stats.fingerprint,
+      }, { rowPool: pool, ...(loan ? { alloc: (length: number) => loan.heap.u32(length) } : {}) });
+    } finally {
+      loan?.release();
+    }
   }
   const tWritten = performance.now();
 

@@ -467,23 +467,32 @@ function sortLists(t: PassD, vLo: number, vHi: number): number {
 
 /**
  * Touch pass: one write per 4 KiB page of [from, to) of a buffer nobody else writes yet, to fault the pages in, until
- * stop[0] is set (then whoever writes there first faults in the rest). Returns the bytes touched.
+ * stop[0] is set (then whoever writes there first faults in the rest). The range is taken as `parts` equal parts
+ * touched a stretch of each in turn, so that when the threads of a later pass write one part each, the pages left to
+ * them are shared out evenly. Returns the bytes touched.
  */
 export interface PassTouch {
   buffer: SharedArrayBuffer;
   from: number;
   to: number;
+  parts: number;
   stop: Int32Array;
 }
 
+const TOUCH_STRETCH = 64 << 12;
+
 export function touchPages(t: PassTouch): number {
   const bytes = new Uint8Array(t.buffer, t.from, t.to - t.from);
-  let i = 0;
-  while (i < bytes.length && Atomics.load(t.stop, 0) === 0) {
-    const end = Math.min(bytes.length, i + (64 << 12));
-    for (; i < end; i += 4096) bytes[i] = 0;
+  const part = Math.ceil(bytes.length / Math.max(1, t.parts) / TOUCH_STRETCH) * TOUCH_STRETCH;
+  let done = 0;
+  for (let at = 0; at < part && Atomics.load(t.stop, 0) === 0; at += TOUCH_STRETCH) {
+    for (let p = at; p < bytes.length; p += part) {
+      const end = Math.min(bytes.length, p + TOUCH_STRETCH);
+      for (let i = p; i < end; i += 4096) bytes[i] = 0;
+      done += end - p;
+    }
   }
-  return Math.min(i, bytes.length);
+  return done;
 }
 
 /** Counting pass of the direct numbering: lines per stored value as source, as target, and as self-loop. */

@@ -6,7 +6,7 @@
 
 import { readFileSync } from "node:fs";
 import type { Graph, NodeIds } from "../core/graph";
-import type { ArcCounts, CanonicalEdges } from "../ingest/assemble";
+import type { ArcCounts, CanonicalEdges, EdgeSegment } from "../ingest/assemble";
 import {
   balancedCuts,
   countValues,
@@ -127,7 +127,7 @@ export function reserveGraph(nodes: number, arcs: number, wide: boolean, policy:
   const to = from + sources.byteLength;
   let touched: Promise<unknown> = Promise.resolve();
   if (runner !== LOCAL_RUNNER && to > from) {
-    touched = runner.run([{ kind: "touch", task: { buffer: heap.buffer, from, to, stop } }]);
+    touched = runner.run([{ kind: "touch", task: { buffer: heap.buffer, from, to, parts: runner.slices, stop } }]);
     // Whoever awaits it sees a failure; left alone (the ingest failed first), it must not surface on its own.
     touched.catch(() => {});
   }
@@ -143,7 +143,9 @@ export async function buildGraph(
   const n = input.n;
   const dropSelf = policy.selfLoops === "drop";
   const both = !policy.directed;
-  const weighted = input.segments.some((s) => s.weight !== null);
+  // Segments cut into pieces whose partition scratch fits in cache (views: order and contents unchanged).
+  const pieces = cutSegments(input.segments, PIECE_ARCS);
+  const weighted = pieces.some((s) => s.weight !== null);
   const merge = policy.duplicates === "merge";
   if (n >= 2 ** 32 - 1) throw new RangeError(`too many nodes for 32-bit indexes: ${n}`);
   const counts = input.degrees ?? countArcs(input, dropSelf, both);
@@ -173,9 +175,9 @@ export async function buildGraph(
   const bucketCuts = Uint32Array.from(balancedCuts((v) => inOffsets[v], n, buckets));
   const bucketOfFinal = buckets > 1 ? new Uint8Array(n) : null;
   if (bucketOfFinal) for (let j = 0; j < buckets; j++) bucketOfFinal.fill(j, bucketCuts[j], bucketCuts[j + 1]);
-  const starts = buckets > 1 ? sharedU32(input.segments.length * (buckets + 1)) : null;
+  const starts = buckets > 1 ? sharedU32(pieces.length * (buckets + 1)) : null;
   const fmaps = new Map<Uint32Array, { fmap: Uint32Array; bucket?: Uint8Array }>();
-  const relabel = input.segments.map((seg, k) => {
+  const relabel = pieces.map((seg, k) => {
     let f = fmaps.get(seg.map);
     if (!f) {
       const fmap = compose(perm, seg.map);
@@ -187,7 +189,7 @@ export async function buildGraph(
   reserve?.stop();
   await runner.run(splitByLength(relabel, slices).map((part) => ({ kind: "relabel" as const, task: { segments: part } })));
   fmaps.clear();
-  const segments: PassSegment[] = input.segments.map((seg) => ({ src: seg.src, dst: seg.dst, weight: seg.weight }));
+  const segments: PassSegment[] = pieces.map((seg) => ({ src: seg.src, dst: seg.dst, weight: seg.weight }));
   const ids = () => permuteIds(input.ids, perm);
   const reportOf = (merged: number): BuildReport => ({
     arcs,
@@ -368,6 +370,20 @@ function lengths(offsets: Uint32Array): Uint32Array {
   const out = new Uint32Array(offsets.length - 1);
   for (let v = 0; v < out.length; v++) out[v] = offsets[v + 1] - offsets[v];
   return out;
+}
+
+/** Arcs per piece of a segment: a piece's partition scratch (9 bytes an arc) stays within an L2 cache. */
+const PIECE_ARCS = 1 << 16;
+
+function cutSegments(segments: EdgeSegment[], arcs: number): EdgeSegment[] {
+  return segments.flatMap((seg) => {
+    const out: EdgeSegment[] = [];
+    for (let a = 0; a < seg.src.length || a === 0; a += arcs) {
+      const b = Math.min(seg.src.length, a + arcs);
+      out.push({ ...seg, src: seg.src.subarray(a, b), dst: seg.dst.subarray(a, b), weight: seg.weight ? seg.weight.subarray(a, b) : null });
+    }
+    return out;
+  });
 }
 
 /** Split items into `parts` runs of consecutive items with about equal total length (some runs may be empty). */

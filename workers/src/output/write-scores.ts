@@ -3,7 +3,7 @@ import type { FileHandle } from "node:fs/promises";
 import type { NodeIds } from "../core/graph";
 import { writeAtomic } from "./atomic-file";
 import { csvIds, CSV_HEADER, formatRows, rowBound, type CsvRowPool } from "./csv-rows";
-import { rankOrder } from "./rank-order";
+import { rankOrder, type ArrayAlloc } from "./rank-order";
 import { scoreTable } from "./score-table";
 
 export type ScoreFormat = "csv" | "arrow" | "parquet";
@@ -106,12 +106,16 @@ export async function writeScores(
   ids: NodeIds,
   scores: Float64Array,
   meta: Record<string, string>,
-  options: { rowPool?: CsvRowPool } = {},
+  options: {
+    rowPool?: CsvRowPool;
+    /** Working memory for the rank order (e.g. a graph heap's space between runs, its pages faulted in already). */
+    alloc?: ArrayAlloc;
+  } = {},
 ): Promise<void> {
   if (idCount(ids) !== scores.length) {
     throw new RangeError(`ids must name ${scores.length} nodes, one per score. Value: ${idCount(ids)}`);
   }
-  const order = rankOrder(scores);
+  const order = rankOrder(scores, options.alloc);
   if (format === "csv") return writeAtomic(path, (fh) => writeCsv(fh, ids, scores, order, options.rowPool));
   // Arrow and Parquet load on first use: their modules take longer to start than a whole small CSV run.
   const arrow = await import("apache-arrow");
