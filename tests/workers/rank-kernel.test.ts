@@ -2,7 +2,7 @@
 import { describe, expect, it } from "vitest";
 import { BLOCK_NODES, fromDenseEdges } from "../../workers/src/core/graph";
 import { BLOCK_SLOTS, combineBlocks } from "../../workers/src/core/pull-step-csr";
-import { checkGraph, contributions, pullStep } from "../../workers/src/core/pull-step";
+import { checkGraph, contributions, markSourcesChecked, pullStep } from "../../workers/src/core/pull-step";
 import { NODE_COST, planShards } from "../../workers/src/core/shard-plan";
 import { outDegree, stepScalars, teleportVector } from "../../workers/src/core/teleport";
 import { prepareRunState } from "../../workers/src/engine/run-state";
@@ -114,6 +114,17 @@ describe("checkGraph", () => {
     weights[0] = NaN;
     expect(() => checkGraph({ ...g, weights })).toThrow(/graph\.weights\[0\]/);
     expect(() => checkGraph({ ...g, m: g.m + 1 })).toThrow(/graph\.sources\.length/);
+  });
+  it("scans a sources array once: built, loaded or checked before, it is trusted", () => {
+    const sources = g.sources.slice();
+    checkGraph({ ...g, sources });
+    // Changed behind its back, a checked array is not scanned again (the build and the store loader mark theirs).
+    sources[5] = 50;
+    expect(() => checkGraph({ ...g, sources })).not.toThrow();
+    expect(() => checkGraph({ ...g, sources: sources.slice() })).toThrow(/graph\.sources\[5\]/);
+    const marked = sources.slice();
+    markSourcesChecked(marked);
+    expect(() => checkGraph({ ...g, sources: marked })).not.toThrow();
   });
 });
 

@@ -95,9 +95,18 @@ export function contributions(a: {
   return contributionsCsr(a.start, a.end, a.x, a.outWeight, a.c, a.blockSums, a.blockNodes);
 }
 
+/** Source arrays already known to hold only indexes below their graph's n: checked here, or built so. */
+const checkedSources = new WeakSet<Uint32Array>();
+
+/** Records that every entry of `sources` is below its graph's n (the build makes them so; see checkGraph). */
+export function markSourcesChecked(sources: Uint32Array): void {
+  checkedSources.add(sources);
+}
+
 /**
  * Validates a CSR-by-target graph once before iterating: offsets start at 0, never decrease and end at m; every
- * source index is < n; weights and out-weights are finite and ≥ 0. O(n + m), sequential reads only.
+ * source index is < n; weights and out-weights are finite and ≥ 0. O(n + m), sequential reads only; the scan of the
+ * sources is skipped for an array already checked (markSourcesChecked).
  */
 export function checkGraph(g: {
   n: number;
@@ -120,7 +129,10 @@ export function checkGraph(g: {
     const w = g.outWeight[v];
     if (!(w >= 0 && w < Infinity)) fail(`graph.outWeight[${v}]`, w, "must be finite and ≥ 0");
   }
-  for (let e = 0; e < m; e++) if (g.sources[e] >= n) fail(`graph.sources[${e}]`, g.sources[e], `must be < n = ${n}`);
+  if (!checkedSources.has(g.sources)) {
+    for (let e = 0; e < m; e++) if (g.sources[e] >= n) fail(`graph.sources[${e}]`, g.sources[e], `must be < n = ${n}`);
+    checkedSources.add(g.sources);
+  }
   if (g.weights !== null) {
     for (let e = 0; e < m; e++) {
       const w = g.weights[e];

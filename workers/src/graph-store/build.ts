@@ -6,6 +6,7 @@
 
 import { readFileSync } from "node:fs";
 import type { Graph, NodeIds } from "../core/graph";
+import { markSourcesChecked } from "../core/pull-step";
 import type { ArcCounts, CanonicalEdges, EdgeSegment } from "../ingest/assemble";
 import {
   balancedCuts,
@@ -139,6 +140,18 @@ export async function buildGraph(
   policy: BuildPolicy,
   runner: PassRunner = LOCAL_RUNNER,
   reserve: GraphReserve | null = null,
+): Promise<{ graph: Graph; report: BuildReport; degrees?: NodeDegrees }> {
+  const built = await buildCsr(input, policy, runner, reserve);
+  // Every source is a relabelled node id, below n by construction: runs need not scan them again.
+  markSourcesChecked(built.graph.sources);
+  return built;
+}
+
+async function buildCsr(
+  input: CanonicalEdges,
+  policy: BuildPolicy,
+  runner: PassRunner,
+  reserve: GraphReserve | null,
 ): Promise<{ graph: Graph; report: BuildReport; degrees?: NodeDegrees }> {
   const n = input.n;
   const dropSelf = policy.selfLoops === "drop";

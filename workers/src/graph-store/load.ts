@@ -7,6 +7,7 @@ import { createHash } from "node:crypto";
 import { open, readFile } from "node:fs/promises";
 import { join } from "node:path";
 import type { Graph, NodeIds } from "../core/graph";
+import { markSourcesChecked } from "../core/pull-step";
 import { GraphStoreError, STORE_FORMAT, STORE_VERSION, type StoredFile, type StoredPiece, type StoreMeta } from "./format";
 import { graphBytes, runBytes, SharedHeap } from "../core/shared-heap";
 import { HEAP_MIN_BYTES, sharedF64, sharedU32 } from "./shared";
@@ -108,6 +109,8 @@ export class GraphStore {
     const outWeight = await this.loadOutWeight(heap ? heap.f64(n) : sharedF64(n));
     for (let u = 0; u < n; u++) if (!(outWeight[u] >= 0)) throw this.corrupt(`out-weight.f64 has an invalid value at node ${u}`);
     const graph: Graph = { n, m, inOffsets, sources, weights, outWeight, ids: await this.loadIds() };
+    // Every piece's sources were checked below n as they were read.
+    markSourcesChecked(sources);
     if (mergedEdges !== undefined) graph.mergedEdges = mergedEdges;
     if (heap) graph.heap = heap;
     return graph;

@@ -81,7 +81,9 @@ export async function ingestEdgeFile(path: string, options: Partial<GraphOptions
       maxFieldBytes: limits.maxFieldBytes,
       maxBadLines: opts.maxBadLines,
       atFileStart: false,
-      expectedLines: expectedLines / Math.max(1, workerCount),
+      // A lane may get more than its share of the chunks (the least busy one gets the next): room for 1.5 shares.
+      // Untouched room costs address space only; growing means a copy into fresh pages.
+      expectedLines: Math.min(expectedLines, (1.5 * expectedLines) / Math.max(1, workerCount)),
       hashIds: run.hashIds,
       scanModule: run.jsScanner ? null : scanModule(),
     };
