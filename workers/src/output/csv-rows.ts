@@ -82,11 +82,25 @@ function putId(buf: Uint8Array, at: number, ids: CsvIds, v: number): number {
  */
 export function formatRows(ids: CsvIds, scores: Float64Array, order: Uint32Array, from: number, to: number, out: Uint8Array): number {
   let at = 0;
+  // Rows come in rank order, so equal scores are neighbours (often: every node with the same in-links has the same
+  // score); the previous score's text is copied instead of formatted again.
+  let prev = NaN;
+  let prevAt = 0;
+  let prevLen = 0;
   for (let i = from; i < to; i++) {
     const v = order[i];
     at = putId(out, at, ids, v);
     out[at++] = COMMA;
-    at = putAscii(out, at, String(scores[v]));
+    const score = scores[v];
+    if (score === prev) {
+      out.copyWithin(at, prevAt, prevAt + prevLen);
+      at += prevLen;
+    } else {
+      prevAt = at;
+      at = putAscii(out, at, String(score));
+      prevLen = at - prevAt;
+      prev = score;
+    }
     out[at++] = COMMA;
     at = putUint(out, at, i + 1);
     out[at++] = NEWLINE;
