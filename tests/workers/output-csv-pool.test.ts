@@ -63,6 +63,27 @@ describe("CSV rows on pool threads", () => {
     expect(here).toContain('"page ""0"", kestrel",');
   });
 
+  it("writes each score as its own shortest text, also in runs of equal scores (copied from the row before)", async () => {
+    const s = scores(4);
+    // Long runs of one score, a run of zeros and negative zeros, runs across piece boundaries.
+    s.fill(0.25, 1000, 40_000);
+    s.fill(-0, 50_000, 50_010);
+    s.fill(0, 50_010, 50_020);
+    s.fill(1 / 3, 100_000, 100_500);
+    const ids = new BigUint64Array(N);
+    for (let i = 0; i < N; i++) ids[i] = BigInt(i);
+    const [here, threads] = await both({ kind: "integer", ids }, s);
+    expect(threads).toBe(here);
+    const rows = here.trimEnd().split("\n").slice(1);
+    let checked = 0;
+    for (const row of rows) {
+      const [id, score] = row.split(",");
+      expect(score).toBe(String(s[Number(id)]));
+      checked++;
+    }
+    expect(checked).toBe(N);
+  });
+
   it("refuses string ids that are not UTF-8, naming nothing half-written", async () => {
     const bytes = Uint8Array.of(0x61, 0x62, 0xff, 0x63);
     const offsets = Uint32Array.of(0, 2, 4);
