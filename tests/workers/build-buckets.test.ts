@@ -1,6 +1,7 @@
-// The directed unweighted build partitions arcs by target bucket and orders each bucket by a radix sort (in
-// WebAssembly when the graph lives on a shared heap, else in JS); smaller graphs (and undirected ones) scatter list by
-// list and sort each list. All must give the same graph, bit for bit, for every policy and thread count.
+// The directed unweighted build partitions arcs by target bucket (in WebAssembly on worker lanes, else in JS) and
+// orders each bucket by a radix sort (in WebAssembly when the graph lives on a shared heap, else in JS); smaller graphs
+// (and undirected ones) scatter list by list and sort each list. All must give the same graph, bit for bit, for every
+// policy and thread count.
 import { readFile } from "node:fs/promises";
 import { afterAll, describe, expect, it } from "vitest";
 import type { Graph } from "../../workers/src/core/graph";
@@ -39,11 +40,16 @@ function sameGraph(a: Graph, b: Graph): void {
   expect(b.ids).toEqual(a.ids);
 }
 
-describe("committed bucket-order binary", () => {
-  it("matches a fresh compile of workers/assembly/order-lists.ts (npm run build:wasm)", async () => {
-    const fresh = await compileAssembly("workers/assembly/order-lists.ts", "lists");
-    expect(Buffer.compare(Buffer.from(fresh), await readFile(new URL("../../workers/assembly/order-lists.wasm", import.meta.url)))).toBe(0);
-  });
+describe("committed build binaries", () => {
+  for (const [source, target, binary] of [
+    ["order-lists.ts", "lists", "order-lists.wasm"],
+    ["lane-passes.ts", "lanes", "lane-passes.wasm"],
+  ]) {
+    it(`${binary} matches a fresh compile of workers/assembly/${source} (npm run build:wasm)`, async () => {
+      const fresh = await compileAssembly(`workers/assembly/${source}`, target);
+      expect(Buffer.compare(Buffer.from(fresh), await readFile(new URL(`../../workers/assembly/${binary}`, import.meta.url)))).toBe(0);
+    });
+  }
 });
 
 describe("bucketed build", () => {

@@ -18,12 +18,19 @@ export interface PassSegment {
  */
 export interface PassRelabel {
   segments: Array<{ src: Uint32Array; dst: Uint32Array; fmap: Uint32Array; bucket?: Uint8Array; starts?: Uint32Array }>;
+  /** The partition in WebAssembly (workers/assembly/lane-passes.ts), used when every segment shares one fmap. */
+  lanes?: WebAssembly.Module;
 }
 
 /** Per-thread scratch of the partition, reused across segments and passes. */
 let scratch = { src: new Uint32Array(0), dst: new Uint32Array(0), bucket: new Uint8Array(0) };
 
 export function relabelArcs(t: PassRelabel): void {
+  const first = t.segments[0];
+  if (t.lanes && first?.bucket && first.starts && t.segments.every((s) => s.fmap === first.fmap && s.bucket === first.bucket && s.starts)) {
+    relabelInWasm(t.lanes, t.segments as Array<Required<PassRelabel["segments"][number]>>);
+    return;
+  }
   for (const { src, dst, fmap, bucket, starts } of t.segments) {
     if (bucket === undefined || starts === undefined) {
       for (let i = 0; i < src.length; i++) {
@@ -38,6 +45,54 @@ export function relabelArcs(t: PassRelabel): void {
       scratch = { src: new Uint32Array(size), dst: new Uint32Array(size), bucket: new Uint8Array(size) };
     }
     partition(src, dst, fmap, bucket, starts);
+  }
+}
+
+type RelabelPartition = (
+  src: number, dst: number, k: number, fmap: number, bucket: number, buckets: number, tb: number, counts: number,
+  starts: number, outSrc: number, outDst: number,
+) => void;
+
+/** This thread's memory for lane-passes.ts, kept across passes (its pages are in memory after the first). */
+let laneMemory: WebAssembly.Memory | null = null;
+
+/** A view of `bytes` bytes of this thread's lane memory from byte 0, grown as needed. */
+function laneBytes(bytes: number): WebAssembly.Memory {
+  const pages = Math.ceil(bytes / 65_536);
+  laneMemory ??= new WebAssembly.Memory({ initial: pages });
+  const have = laneMemory.buffer.byteLength / 65_536;
+  if (have < pages) laneMemory.grow(pages - have);
+  return laneMemory;
+}
+
+/** partition() for segments sharing one fmap and bucket table: each copied in, relabelled and grouped, copied out. */
+function relabelInWasm(module: WebAssembly.Module, segments: Array<Required<PassRelabel["segments"][number]>>): void {
+  const { fmap, bucket } = segments[0];
+  const buckets = segments[0].starts.length - 1;
+  const piece = segments.reduce((a, s) => Math.max(a, s.src.length), 0);
+  const align = (x: number) => Math.ceil(x / 64) * 64;
+  const F = 65_536;
+  const B = F + align(4 * fmap.length);
+  const S = B + align(bucket.length);
+  const D = S + align(4 * piece);
+  const OS = D + align(4 * piece);
+  const OD = OS + align(4 * piece);
+  const TB = OD + align(4 * piece);
+  const C = TB + align(piece);
+  const ST = C + align(16 * buckets);
+  const memory = laneBytes(ST + align(4 * (buckets + 1)));
+  const run = new WebAssembly.Instance(module, { env: { memory } }).exports.relabelPartition as RelabelPartition;
+  const u32 = new Uint32Array(memory.buffer);
+  new Uint32Array(memory.buffer, F, fmap.length).set(fmap);
+  new Uint8Array(memory.buffer, B, bucket.length).set(bucket);
+  for (const { src, dst, starts } of segments) {
+    const k = src.length;
+    u32.set(src, S >> 2);
+    u32.set(dst, D >> 2);
+    run(S, D, k, F, B, buckets, TB, C, ST, OS, OD);
+    src.set(u32.subarray(OS >> 2, (OS >> 2) + k));
+    dst.set(u32.subarray(OD >> 2, (OD >> 2) + k));
+    starts.set(u32.subarray(ST >> 2, (ST >> 2) + buckets + 1));
   }
 }
 
@@ -82,7 +137,7 @@ function partition(src: Uint32Array, dst: Uint32Array, fmap: Uint32Array, bucket
     const x = dst[i];
     const b = bucket[x];
     tb[i] = b;
-    c[4 * b]++;
+    c[4 * b + (i & 3)]++;
     src[i] = fmap[src[i]];
     dst[i] = fmap[x];
   }
@@ -114,7 +169,7 @@ function partition(src: Uint32Array, dst: Uint32Array, fmap: Uint32Array, bucket
     td[p3] = dst[i + 3];
   }
   for (let i = body; i < len; i++) {
-    const p = c[4 * tb[i]]++;
+    const p = c[4 * tb[i] + (i & 3)]++;
     ts[p] = src[i];
     td[p] = dst[i];
   }

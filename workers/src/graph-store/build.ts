@@ -200,7 +200,9 @@ async function buildCsr(
     return { src: seg.src, dst: seg.dst, ...f, ...(starts ? { starts: segmentStarts(starts, k, buckets) } : {}) };
   });
   reserve?.stop();
-  await runner.run(splitByLength(relabel, slices).map((part) => ({ kind: "relabel" as const, task: { segments: part } })));
+  // Worker lanes partition in WebAssembly, in memory of their own that they keep for later builds.
+  const lanes = runner !== LOCAL_RUNNER && bucketOfFinal ? lanePassesModule() : undefined;
+  await runner.run(splitByLength(relabel, slices).map((part) => ({ kind: "relabel" as const, task: { segments: part, lanes } })));
   fmaps.clear();
   const segments: PassSegment[] = pieces.map((seg) => ({ src: seg.src, dst: seg.dst, weight: seg.weight }));
   const ids = () => permuteIds(input.ids, perm);
@@ -354,6 +356,14 @@ async function buildCsr(
     ...(heap ? { heap } : {}),
   };
   return { graph, report: reportOf(merged) };
+}
+
+let lanesCompiled: WebAssembly.Module | null = null;
+
+/** The parse lanes' relabel-and-partition pass (workers/assembly/lane-passes.ts), compiled once. */
+function lanePassesModule(): WebAssembly.Module {
+  lanesCompiled ??= new WebAssembly.Module(readFileSync(new URL("../../assembly/lane-passes.wasm", import.meta.url)));
+  return lanesCompiled;
 }
 
 let listsCompiled: WebAssembly.Module | null = null;
