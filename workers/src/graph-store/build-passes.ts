@@ -557,9 +557,17 @@ export interface PassCount {
   inRaw: Uint32Array;
   /** Present when the file has self-loops. */
   selfRaw: Uint32Array | null;
+  /** Count in WebAssembly (workers/assembly/lane-passes.ts), in this thread's lane memory. */
+  lanes?: WebAssembly.Module;
 }
 
+type CountValues = (src: number, dst: number, k: number, outRaw: number, inRaw: number, selfRaw: number) => void;
+
 export function countValues(t: PassCount): void {
+  if (t.lanes) {
+    countInWasm(t.lanes, t);
+    return;
+  }
   const { outRaw, inRaw, selfRaw } = t;
   for (const { src, dst } of t.edges) {
     for (let i = 0; i < src.length; i++) {
@@ -571,6 +579,34 @@ export function countValues(t: PassCount): void {
     }
   }
 }
+
+/** countValues with the tables in this thread's lane memory (whose pages the partition then reuses). */
+function countInWasm(module: WebAssembly.Module, t: PassCount): void {
+  const values = t.outRaw.length;
+  const tableBytes = Math.ceil((4 * values) / 64) * 64;
+  const OUT = 65_536;
+  const IN = OUT + tableBytes;
+  const SELF = IN + tableBytes;
+  const SRC = SELF + (t.selfRaw ? tableBytes : 0);
+  const DST = SRC + 4 * COUNT_PIECE;
+  const memory = laneBytes(DST + 4 * COUNT_PIECE);
+  const count = new WebAssembly.Instance(module, { env: { memory } }).exports.countValues as CountValues;
+  const u32 = new Uint32Array(memory.buffer);
+  u32.fill(0, OUT >> 2, SRC >> 2);
+  for (const { src, dst } of t.edges) {
+    for (let a = 0; a < src.length; a += COUNT_PIECE) {
+      const b = Math.min(src.length, a + COUNT_PIECE);
+      u32.set(src.subarray(a, b), SRC >> 2);
+      u32.set(dst.subarray(a, b), DST >> 2);
+      count(SRC, DST, b - a, OUT, IN, t.selfRaw ? SELF : 0);
+    }
+  }
+  t.outRaw.set(u32.subarray(OUT >> 2, (OUT >> 2) + values));
+  t.inRaw.set(u32.subarray(IN >> 2, (IN >> 2) + values));
+  t.selfRaw?.set(u32.subarray(SELF >> 2, (SELF >> 2) + values));
+}
+
+const COUNT_PIECE = 1 << 16;
 
 /** Cut 0..len into `parts` ranges of about equal total weight (prefix[i] = total weight before i). */
 export function balancedCuts(prefixAt: (i: number) => number, len: number, parts: number): number[] {

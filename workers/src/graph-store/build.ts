@@ -360,8 +360,8 @@ async function buildCsr(
 
 let lanesCompiled: WebAssembly.Module | null = null;
 
-/** The parse lanes' relabel-and-partition pass (workers/assembly/lane-passes.ts), compiled once. */
-function lanePassesModule(): WebAssembly.Module {
+/** The parse lanes' count and relabel-and-partition passes (workers/assembly/lane-passes.ts), compiled once. */
+export function lanePassesModule(): WebAssembly.Module {
   lanesCompiled ??= new WebAssembly.Module(readFileSync(new URL("../../assembly/lane-passes.wasm", import.meta.url)));
   return lanesCompiled;
 }

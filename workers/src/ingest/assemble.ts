@@ -5,7 +5,7 @@
 // otherwise ids go through hash tables: one per part during the parse, merged here.
 
 import type { NodeIds } from "../core/graph";
-import { LOCAL_RUNNER, type PassRunner } from "../graph-store/build";
+import { LOCAL_RUNNER, lanePassesModule, type PassRunner } from "../graph-store/build";
 import { sharedU32 } from "../graph-store/shared";
 import { BytesTable } from "./bytes-table";
 import type { IdMode, ParsedPart } from "./line-parser";
@@ -99,7 +99,9 @@ async function assembleRaw(parts: ParsedPart[], policy: CountPolicy, runner: Pas
   }));
   const bySlice: Array<Array<{ src: Uint32Array; dst: Uint32Array }>> = tables.map(() => []);
   parts.forEach((p, k) => bySlice[k % slices].push({ src: p.src, dst: p.dst }));
-  await runner.run(tables.map((t, k) => ({ kind: "count" as const, task: { edges: bySlice[k], ...t } })));
+  // Worker lanes count in WebAssembly.
+  const lanes = runner === LOCAL_RUNNER ? undefined : lanePassesModule();
+  await runner.run(tables.map((t, k) => ({ kind: "count" as const, task: { edges: bySlice[k], ...t, lanes } })));
   onThreadsFree();
   const { outRaw, inRaw, selfRaw } = tables[0];
   for (const t of tables.slice(1)) {
