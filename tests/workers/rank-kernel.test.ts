@@ -3,10 +3,10 @@ import { describe, expect, it } from "vitest";
 import { BLOCK_NODES, fromDenseEdges } from "../../workers/src/core/graph";
 import { BLOCK_SLOTS, combineBlocks } from "../../workers/src/core/pull-step-csr";
 import { checkGraph, contributions, markSourcesChecked, pullStep } from "../../workers/src/core/pull-step";
-import { NODE_COST, planShards } from "../../workers/src/core/shard-plan";
+import { countMergedEdges, NODE_COST, planShards } from "../../workers/src/core/shard-plan";
 import { outDegree, stepScalars, teleportVector } from "../../workers/src/core/teleport";
 import { prepareRunState } from "../../workers/src/engine/run-state";
-import { applyPolicies, randomEdges, sameBits, toGraph } from "./rank-test-graphs";
+import { applyPolicies, prng, randomEdges, sameBits, toGraph } from "./rank-test-graphs";
 
 const BN = 4;
 
@@ -182,6 +182,32 @@ describe("planShards", () => {
   it("returns no shard for the empty graph and rejects a bad count", () => {
     expect(planShards(Uint32Array.of(0), 0, 3, BLOCK_NODES)).toEqual([]);
     expect(() => planShards(g.inOffsets, g.n, 0, BLOCK_NODES)).toThrow(/count .*Value: 0/);
+  });
+  it("counts a shard's edges once per distinct source in each list (repeats, empty lists, equal neighbours across lists)", () => {
+    // Sorted in-lists with runs of repeats; many lists empty; a list often ends with the source the next one starts with.
+    const rnd = prng(21);
+    const n = 3000;
+    const offsets = new Uint32Array(n + 1);
+    const sources: number[] = [];
+    for (let v = 0; v < n; v++) {
+      const len = rnd() < 0.4 ? 0 : Math.floor(rnd() * 12);
+      const list = Array.from({ length: len }, () => Math.floor(rnd() * 40)).sort((a, b) => a - b);
+      if (len > 0 && sources.length > 0 && rnd() < 0.5) list[0] = sources[sources.length - 1];
+      list.sort((a, b) => a - b);
+      sources.push(...list);
+      offsets[v + 1] = sources.length;
+    }
+    const src = Uint32Array.from(sources);
+    const distinct = (a: number, b: number) => {
+      let d = 0;
+      for (let v = a; v < b; v++) for (let e = offsets[v]; e < offsets[v + 1]; e++) if (e === offsets[v] || src[e] !== src[e - 1]) d++;
+      return d;
+    };
+    for (const count of [1, 2, 7]) {
+      const plan = countMergedEdges(planShards(offsets, n, count, 64), offsets, src);
+      for (const r of plan) expect(r.edges).toBe(distinct(r.start, r.end));
+      expect(plan.reduce((a, r) => a + r.edges, 0)).toBe(distinct(0, n));
+    }
   });
 });
 

@@ -65,9 +65,15 @@ export function planShards(inOffsets: Uint32Array, n: number, count: number, blo
  */
 export function countMergedEdges(plan: ShardRange[], inOffsets: Uint32Array, sources: Uint32Array): ShardRange[] {
   return plan.map((r) => {
+    // Equal neighbours over the whole range in one flat loop, less those that straddle two lists.
+    const lo = inOffsets[r.start];
+    const hi = inOffsets[r.end];
     let repeats = 0;
-    for (let v = r.start; v < r.end; v++) {
-      for (let e = inOffsets[v] + 1, end = inOffsets[v + 1]; e < end; e++) if (sources[e] === sources[e - 1]) repeats++;
+    for (let e = lo + 1; e < hi; e++) if (sources[e] === sources[e - 1]) repeats++;
+    for (let v = r.start + 1; v < r.end; v++) {
+      const b = inOffsets[v];
+      // A boundary once (empty lists share it), and only inside the range.
+      if (b !== inOffsets[v - 1] && b > lo && b < hi && sources[b] === sources[b - 1]) repeats--;
     }
     return { ...r, edges: r.edges - repeats };
   });
