@@ -261,12 +261,12 @@ async function buildCsr(
     );
     const dups = dupsBySlice.reduce((a, b) => a + b, 0);
     const outDegree = new Uint32Array(n);
-    for (let c = 0; c < n; c++) outWeight[perm[c]] = counts.out[c];
-    for (let u = 0; u < n; u++) {
-      let d = outWeight[u];
-      for (const slice of dupOut) if (slice !== null && dups > 0) d -= slice[u];
-      outDegree[u] = d;
+    for (let c = 0; c < n; c++) {
+      const u = perm[c];
+      outWeight[u] = counts.out[c];
+      outDegree[u] = counts.out[c];
     }
+    if (dups > 0) for (const slice of dupOut) if (slice !== null) for (let u = 0; u < n; u++) outDegree[u] -= slice[u];
     // Degrees of the graph as the policy defines it: merged duplicates count once. (Out of the borrowed space, which
     // the graph's runs reuse.)
     const degrees = { in: inDistinct ? Uint32Array.from(inDistinct) : lengths(inOffsets), out: outDegree };

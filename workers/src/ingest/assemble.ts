@@ -103,41 +103,56 @@ async function assembleRaw(parts: ParsedPart[], policy: CountPolicy, runner: Pas
   const lanes = runner === LOCAL_RUNNER ? undefined : lanePassesModule();
   await runner.run(tables.map((t, k) => ({ kind: "count" as const, task: { edges: bySlice[k], ...t, lanes } })));
   onThreadsFree();
-  const { outRaw, inRaw, selfRaw } = tables[0];
-  for (const t of tables.slice(1)) {
+  // Tables beyond the second fold into it first (more than two count threads); the first two are summed on the way.
+  const [first, second = null] = tables;
+  for (const t of tables.slice(2)) {
+    const into = second as (typeof tables)[number];
     for (let x = 0; x <= maxId; x++) {
-      outRaw[x] += t.outRaw[x];
-      inRaw[x] += t.inRaw[x];
+      into.outRaw[x] += t.outRaw[x];
+      into.inRaw[x] += t.inRaw[x];
     }
-    if (selfRaw && t.selfRaw) for (let x = 0; x <= maxId; x++) selfRaw[x] += t.selfRaw[x];
+    if (into.selfRaw && t.selfRaw) for (let x = 0; x <= maxId; x++) into.selfRaw[x] += t.selfRaw[x];
   }
-  let n = 0;
-  for (let x = 0; x <= maxId; x++) if (outRaw[x] !== 0 || inRaw[x] !== 0) n++;
+  const { outRaw, inRaw, selfRaw } = first;
+  const outRaw2 = second?.outRaw ?? null;
+  const inRaw2 = second?.inRaw ?? null;
+  const selfRaw2 = second?.selfRaw ?? null;
+  // Room for every value; only the first n slots are written (untouched room costs no memory).
   const map = sharedU32(maxId + 1);
-  const ids = new BigUint64Array(n);
+  const idsRoom = new BigUint64Array(maxId + 1);
   // Ids below 2^32 written as the low words of the 64-bit slots (no BigInt per node; the high words stay 0).
-  const idWords = new Uint32Array(ids.buffer);
-  const out = new Uint32Array(n);
-  const inn = new Uint32Array(n);
+  const idWords = new Uint32Array(idsRoom.buffer);
+  const outRoom = new Uint32Array(maxId + 1);
+  const inRoom = new Uint32Array(maxId + 1);
   const selfPerArc = policy.directed ? (policy.dropSelfLoops ? 1 : 0) : policy.dropSelfLoops ? 2 : 1;
   let arcs = 0;
   let dropped = 0;
   let c = 0;
   for (let x = 0; x <= maxId; x++) {
-    if (outRaw[x] === 0 && inRaw[x] === 0) continue;
-    const self = selfRaw ? selfRaw[x] : 0;
+    let o = outRaw[x];
+    let i = inRaw[x];
+    if (outRaw2 !== null && inRaw2 !== null) {
+      o += outRaw2[x];
+      i += inRaw2[x];
+    }
+    if (o === 0 && i === 0) continue;
+    const self = (selfRaw ? selfRaw[x] : 0) + (selfRaw2 ? selfRaw2[x] : 0);
     if (policy.dropSelfLoops) dropped += self;
     if (policy.directed) {
-      out[c] = outRaw[x] - selfPerArc * self;
-      inn[c] = inRaw[x] - selfPerArc * self;
+      outRoom[c] = o - selfPerArc * self;
+      inRoom[c] = i - selfPerArc * self;
     } else {
-      out[c] = outRaw[x] + inRaw[x] - selfPerArc * self;
-      inn[c] = out[c];
+      outRoom[c] = o + i - selfPerArc * self;
+      inRoom[c] = outRoom[c];
     }
-    arcs += out[c];
+    arcs += outRoom[c];
     map[x] = c;
     idWords[2 * c++] = x;
   }
+  const n = c;
+  const ids = idsRoom.subarray(0, n);
+  const out = outRoom.subarray(0, n);
+  const inn = inRoom.subarray(0, n);
   return {
     n,
     ids: { kind: "integer", ids },
