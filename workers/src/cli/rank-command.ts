@@ -75,18 +75,20 @@ export async function rankCommand(file: string, o: RankCommandOptions): Promise<
   const format = o.out ? scoreFormat(o.out) : null;
   const threads = o.threads ?? availableParallelism();
   const seedList = o.seeds ? await readSeeds(o.seeds) : null;
-  // The iteration's threads start now and get ready while the file is read.
-  const pool = new RankPool({ threads });
+  // The iteration's threads start once the parse lanes are done with the cores, and get ready while this thread
+  // finishes the graph.
+  let pool: RankPool | null = null;
+  const startPool = () => (pool ??= new RankPool({ threads }));
   try {
-    return await rankWith(pool, file, o, t0, format, threads, seedList);
+    return await rankWith(startPool, file, o, t0, format, threads, seedList);
   } finally {
     // The command exits right after its report: the threads need not be torn down first.
-    pool.close().catch(() => {});
+    (pool as RankPool | null)?.close().catch(() => {});
   }
 }
 
 async function rankWith(
-  pool: RankPool,
+  startPool: () => RankPool,
   file: string,
   o: RankCommandOptions,
   t0: number,
@@ -112,11 +114,13 @@ async function rankWith(
         // Every run here weighs an edge by its merged multiplicity, so repeated sources serve as well as weights.
         duplicateLayout: "repeats",
         onProgress: (p) => parseBar.update(p.bytesRead, p.totalBytes, p.phase === "parse" ? `${p.rows} lines` : "building"),
+        onThreadsDone: startPool,
       },
     );
   } finally {
     parseBar.stop();
   }
+  const pool = startPool();
   const { graph, stats } = ingested;
   if (o.saveGraph) {
     await writeGraphStore(o.saveGraph, graph, { options: ingested.options, stats, fingerprint: stats.fingerprint });

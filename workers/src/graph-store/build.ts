@@ -140,8 +140,10 @@ export async function buildGraph(
   policy: BuildPolicy,
   runner: PassRunner = LOCAL_RUNNER,
   reserve: GraphReserve | null = null,
+  /** Called when the runner's threads have done their last pass (the rest runs on this thread). */
+  passesDone: () => void = () => {},
 ): Promise<{ graph: Graph; report: BuildReport; degrees?: NodeDegrees }> {
-  const built = await buildCsr(input, policy, runner, reserve);
+  const built = await buildCsr(input, policy, runner, reserve, passesDone);
   // Every source is a relabelled node id, below n by construction: runs need not scan them again.
   markSourcesChecked(built.graph.sources);
   return built;
@@ -152,6 +154,7 @@ async function buildCsr(
   policy: BuildPolicy,
   runner: PassRunner,
   reserve: GraphReserve | null,
+  passesDone: () => void,
 ): Promise<{ graph: Graph; report: BuildReport; degrees?: NodeDegrees }> {
   const n = input.n;
   const dropSelf = policy.selfLoops === "drop";
@@ -259,6 +262,7 @@ async function buildCsr(
         },
       })),
     );
+    passesDone();
     const dups = dupsBySlice.reduce((a, b) => a + b, 0);
     const outDegree = new Uint32Array(n);
     for (let c = 0; c < n; c++) {
@@ -343,6 +347,7 @@ async function buildCsr(
       },
     })),
   );
+  passesDone();
   const merged = mergedBySlice.reduce((a, b) => a + b, 0);
   const m = merged > 0 ? compact(n, inOffsets, fillLast, sources, weights) : arcs;
   const graph: Graph = {

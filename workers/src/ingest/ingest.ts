@@ -36,6 +36,8 @@ export interface IngestRun {
   heapMinBytes?: number;
   /** Bytes of in-lists per target bucket of the build (see BuildPolicy). */
   bucketBytes?: number;
+  /** Called once the worker threads are done (the rest of the ingest runs on the calling thread). */
+  onThreadsDone?: () => void;
   onProgress?: (p: IngestProgress) => void;
   /** Number ids through hash tables even when a direct table would do (tests compare both paths). */
   hashIds?: boolean;
@@ -177,7 +179,7 @@ export async function ingestEdgeFile(path: string, options: Partial<GraphOptions
       degrees: numbering.degrees,
     };
     const tNumbered = performance.now();
-    const { graph, report, degrees: built } = await buildGraph(canonical, buildPolicy, runner, reserve);
+    const { graph, report, degrees: built } = await buildGraph(canonical, buildPolicy, runner, reserve, () => run.onThreadsDone?.());
     const degrees = degreeStats(graph, built);
     const tBuilt = performance.now();
 
