@@ -6,7 +6,9 @@ import { join } from "node:path";
 import { Compression, ParquetFile, readParquet } from "parquet-wasm/node";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import type { NodeIds } from "../../workers/src/core/graph";
-import { certainTop, rankOrder, ranks, topK } from "../../workers/src/output/rank-order";
+import { SharedHeap } from "../../workers/src/core/shared-heap";
+import { orderListsModule } from "../../workers/src/graph-store/build";
+import { certainTop, rankOrder, rankOrderIn, ranks, topK } from "../../workers/src/output/rank-order";
 import { writeScores } from "../../workers/src/output/write-scores";
 import { prng, sameBits } from "./rank-test-graphs";
 
@@ -44,6 +46,18 @@ describe("rank order", () => {
     expect(Array.from(rankOrder(s))).toEqual([4, 3, 5, 2, 0, 1]);
     expect(Array.from(topK(s, 3))).toEqual([4, 3, 5]);
     expect(() => topK(s, -1)).toThrow(/k must be/);
+  });
+
+  it("gives the same order in WebAssembly on a shared heap (the CLI's way), negatives, zeros and ties included", () => {
+    for (const n of [0, 1, 17, 70_000]) {
+      const s = scoresWithTies(n + 7, n);
+      for (let i = 0; i < n; i += 13) s[i] = -s[i];
+      if (n > 2) [s[0], s[1]] = [-0, 0];
+      const heap = SharedHeap.create(7 * 4 * n + 6 * 2048 * 4 + 4096) as SharedHeap;
+      const order = rankOrderIn(heap.memory, orderListsModule(), s, (length) => heap.u32(length));
+      expect(order.buffer).toBe(heap.buffer);
+      expect(Array.from(order)).toEqual(Array.from(rankOrder(s)));
+    }
   });
 });
 

@@ -1,5 +1,6 @@
-// AssemblyScript twin of placeSorted in workers/src/graph-store/build-passes.ts, over the graph's shared linear memory:
-// the in-lists of one target bucket, filled sorted by source. Arguments are byte offsets of arrays (0 = absent).
+// AssemblyScript twins, over a graph's shared linear memory, of placeSorted in workers/src/graph-store/build-passes.ts
+// (the in-lists of one target bucket, filled sorted by source) and of the rank order's radix sort. Arguments are byte
+// offsets of arrays (0 = absent).
 
 // Orders the bucket's k arcs (us[i] → vs[i]) by source with a least-significant-digit radix sort (digits of at most
 // 11 bits over `bits` bits; us2/vs2 are scratch, counts holds 2^11 + 1 words), then places them in that order:
@@ -77,4 +78,67 @@ export function orderBucket(
     store<u32>(fp, <u32>at + 1);
   }
   return dups;
+}
+
+// Twin of radixOrder64 in workers/src/output/rank-order.ts: idx = 0..n-1 ordered by the 64-bit keys (hi[i], lo[i])
+// ascending, ties by ascending index; a stable LSD radix sort over digits of 11, 11 and 10 bits of each word, a digit
+// every key shares skipped. hi2, lo2 and idx2 are scratch of n words each; counts holds 6 · 2048 words. Returns the
+// byte offset of the array holding the order (idx or idx2).
+export function radixOrder64(hi: usize, lo: usize, idx: usize, hi2: usize, lo2: usize, idx2: usize, n: u32, counts: usize): usize {
+  const k: usize = <usize>n;
+  memory.fill(counts, 0, 6 * 2048 * 4);
+  for (let i: usize = 0; i < k; i++) {
+    store<u32>(idx + (i << 2), <u32>i);
+    const l = load<u32>(lo + (i << 2));
+    const h = load<u32>(hi + (i << 2));
+    bump(counts + ((<usize>(l & 0x7ff)) << 2));
+    bump(counts + ((2048 + <usize>((l >>> 11) & 0x7ff)) << 2));
+    bump(counts + ((4096 + <usize>(l >>> 22)) << 2));
+    bump(counts + ((6144 + <usize>(h & 0x7ff)) << 2));
+    bump(counts + ((8192 + <usize>((h >>> 11) & 0x7ff)) << 2));
+    bump(counts + ((10240 + <usize>(h >>> 22)) << 2));
+  }
+  let a = hi;
+  let b = lo;
+  let c = idx;
+  let a2 = hi2;
+  let b2 = lo2;
+  let c2 = idx2;
+  for (let d: u32 = 0; d < 6; d++) {
+    const shift: u32 = (d % 3) * 11;
+    const mask: u32 = d % 3 == 2 ? 0x3ff : 0x7ff;
+    const count = counts + ((<usize>d * 2048) << 2);
+    const keys = d < 3 ? b : a;
+    if (k == 0 || load<u32>(count + (<usize>((load<u32>(keys) >>> shift) & mask) << 2)) == n) continue;
+    let sum: u32 = 0;
+    for (let j: usize = 0; j <= <usize>mask; j++) {
+      const cp = count + (j << 2);
+      const v = load<u32>(cp);
+      store<u32>(cp, sum);
+      sum += v;
+    }
+    for (let i: usize = 0; i < k; i++) {
+      const cp = count + (<usize>((load<u32>(keys + (i << 2)) >>> shift) & mask) << 2);
+      const at = <usize>load<u32>(cp);
+      store<u32>(cp, <u32>at + 1);
+      store<u32>(a2 + (at << 2), load<u32>(a + (i << 2)));
+      store<u32>(b2 + (at << 2), load<u32>(b + (i << 2)));
+      store<u32>(c2 + (at << 2), load<u32>(c + (i << 2)));
+    }
+    let t = a;
+    a = a2;
+    a2 = t;
+    t = b;
+    b = b2;
+    b2 = t;
+    t = c;
+    c = c2;
+    c2 = t;
+  }
+  return c;
+}
+
+@inline
+function bump(p: usize): void {
+  store<u32>(p, load<u32>(p) + 1);
 }

@@ -4,9 +4,10 @@ import { availableParallelism } from "node:os";
 import { extname } from "node:path";
 import type { Graph, NodeIds } from "../core/graph";
 import { rank, RankPool, type RankResult } from "../engine/rank";
+import { orderListsModule } from "../graph-store/build";
 import { writeGraphStore } from "../graph-store/write";
 import { ingestEdgeFile, type IngestResult } from "../ingest/ingest";
-import { topK } from "../output/rank-order";
+import { rankOrderIn, topK } from "../output/rank-order";
 import { writeScores, type ScoreFormat } from "../output/write-scores";
 import { progressBar } from "./progress";
 import { readSeeds, resolveSeeds } from "./seeds";
@@ -155,9 +156,11 @@ async function rankWith(
   const tIterated = performance.now();
 
   if (o.out && format) {
-    // The rank order's arrays come from the graph heap's run space when the run gave it back: its pages are in memory.
+    // The rank order is sorted in WebAssembly in the graph heap's run space when the run gave it back (its pages are
+    // in memory already).
     const loan = graph.heap?.lend() ?? null;
     try {
+      const order = loan ? rankOrderIn(loan.heap.memory, orderListsModule(), result.scores, (length) => loan.heap.u32(length)) : undefined;
       await writeScores(o.out, format, graph.ids, result.scores, {
         damping: String(o.damping),
         tolerance: String(o.tolerance),
@@ -169,7 +172,7 @@ async function rankWith(
         dangling: o.dangling,
         teleport: seeds ? "seeds" : "uniform",
         inputFingerprint: stats.fingerprint,
-      }, { rowPool: pool, ...(loan ? { alloc: (length: number) => loan.heap.u32(length) } : {}) });
+      }, { rowPool: pool, order });
     } finally {
       loan?.release();
     }

@@ -373,8 +373,8 @@ export function lanePassesModule(): WebAssembly.Module {
 
 let listsCompiled: WebAssembly.Module | null = null;
 
-/** The bucket orderer (workers/assembly/order-lists.ts), compiled once. */
-function orderListsModule(): WebAssembly.Module {
+/** The bucket orderer and rank order (workers/assembly/order-lists.ts), compiled once. */
+export function orderListsModule(): WebAssembly.Module {
   listsCompiled ??= new WebAssembly.Module(readFileSync(new URL("../../assembly/order-lists.wasm", import.meta.url)));
   return listsCompiled;
 }

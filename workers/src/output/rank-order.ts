@@ -14,14 +14,38 @@ const SLOTS = 2048;
 /**
  * order[i] = the dense id at rank i + 1. LSD radix sort on the float64 bits mapped to a descending unsigned key
  * (−0 counts as +0; NaN order is unspecified), stable from ascending ids so ties keep ascending id. O(n), at most 6
- * passes. `alloc` gives its working arrays (the order is one of them); by default fresh ones, the order's shared.
+ * passes. The order lives in shared memory (worker threads format score files from it).
  * @example rankOrder(Float64Array.of(0.2, 0.5, 0.2)) // [1, 0, 2]
  */
-export function rankOrder(scores: Float64Array, alloc: ArrayAlloc = freshArray): Uint32Array {
+export function rankOrder(scores: Float64Array): Uint32Array {
+  const n = scores.length;
+  const hi = new Uint32Array(n);
+  const lo = new Uint32Array(n);
+  descendingKeys(scores, hi, lo);
+  return radixOrder64(hi, lo);
+}
+
+/**
+ * rankOrder in WebAssembly (workers/assembly/order-lists.ts), over a shared memory out of which `alloc` carves its
+ * arrays (e.g. a graph heap's run space between runs); the order it returns is one of them. Same order, bit for bit.
+ */
+export function rankOrderIn(memory: WebAssembly.Memory, module: WebAssembly.Module, scores: Float64Array, alloc: (length: number) => Uint32Array): Uint32Array {
+  const n = scores.length;
+  const [hi, lo, idx, hi2, lo2, idx2] = Array.from({ length: 6 }, () => alloc(n));
+  const counts = alloc(DIGITS.length * SLOTS);
+  for (const a of [hi, lo, idx, hi2, lo2, idx2, counts]) {
+    if (a.buffer !== memory.buffer) throw new Error("rankOrderIn: every array must live in the given memory");
+  }
+  descendingKeys(scores, hi, lo);
+  const order = new WebAssembly.Instance(module, { env: { memory } }).exports.radixOrder64 as (...offsets: number[]) => number;
+  const at = order(hi.byteOffset, lo.byteOffset, idx.byteOffset, hi2.byteOffset, lo2.byteOffset, idx2.byteOffset, n, counts.byteOffset);
+  return at === idx.byteOffset ? idx : idx2;
+}
+
+/** The descending sort key of each score as two words (see rankOrder). */
+function descendingKeys(scores: Float64Array, hi: Uint32Array, lo: Uint32Array): void {
   const n = scores.length;
   const words = new Uint32Array(scores.buffer, scores.byteOffset, n * 2);
-  const hi = alloc(n, false);
-  const lo = alloc(n, false);
   for (let i = 0; i < n; i++) {
     let h = words[2 * i + 1];
     const l = words[2 * i];
@@ -35,14 +59,6 @@ export function rankOrder(scores: Float64Array, alloc: ArrayAlloc = freshArray):
       lo[i] = ~l >>> 0;
     }
   }
-  return radixOrder64(hi, lo, alloc);
-}
-
-/** Working arrays of the rank-order sorts; `shared` ones may be handed to worker threads. */
-export type ArrayAlloc = (length: number, shared: boolean) => Uint32Array;
-
-function freshArray(length: number, shared: boolean): Uint32Array {
-  return shared ? new Uint32Array(new SharedArrayBuffer(4 * length)) : new Uint32Array(length);
 }
 
 /**
@@ -50,12 +66,12 @@ function freshArray(length: number, shared: boolean): Uint32Array {
  * over six digits of at most 11 bits, O(n). Consumes hi and lo (they are reordered in place of scratch).
  * @example radixOrder64(Uint32Array.of(0, 0), Uint32Array.of(5, 2)) // [1, 0]
  */
-export function radixOrder64(hiKeys: Uint32Array, loKeys: Uint32Array, alloc: ArrayAlloc = freshArray): Uint32Array {
+export function radixOrder64(hiKeys: Uint32Array, loKeys: Uint32Array): Uint32Array {
   const n = hiKeys.length;
   let hi: Uint32Array = hiKeys;
   let lo: Uint32Array = loKeys;
   // Shared memory: the order is handed to worker threads that format score files.
-  let idx: Uint32Array = alloc(n, true);
+  let idx: Uint32Array = new Uint32Array(new SharedArrayBuffer(4 * n));
   for (let i = 0; i < n; i++) idx[i] = i;
   // Every digit's histogram in one read; a digit all keys share needs no pass.
   const counts = new Uint32Array(DIGITS.length * SLOTS);
@@ -83,9 +99,9 @@ export function radixOrder64(hiKeys: Uint32Array, loKeys: Uint32Array, alloc: Ar
       count[k] = sum;
       sum += c;
     }
-    hi2 ??= alloc(n, false);
-    lo2 ??= alloc(n, false);
-    idx2 ??= alloc(n, true);
+    hi2 ??= new Uint32Array(n);
+    lo2 ??= new Uint32Array(n);
+    idx2 ??= new Uint32Array(new SharedArrayBuffer(4 * n));
     for (let i = 0; i < n; i++) {
       const at = count[(keys[i] >>> shift) & mask]++;
       hi2[at] = hi[i];

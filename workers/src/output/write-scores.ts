@@ -3,7 +3,7 @@ import type { FileHandle } from "node:fs/promises";
 import type { NodeIds } from "../core/graph";
 import { writeAtomic } from "./atomic-file";
 import { csvIds, CSV_HEADER, formatRows, rowBound, type CsvRowPool } from "./csv-rows";
-import { rankOrder, type ArrayAlloc } from "./rank-order";
+import { rankOrder } from "./rank-order";
 import { scoreTable } from "./score-table";
 
 export type ScoreFormat = "csv" | "arrow" | "parquet";
@@ -108,14 +108,15 @@ export async function writeScores(
   meta: Record<string, string>,
   options: {
     rowPool?: CsvRowPool;
-    /** Working memory for the rank order (e.g. a graph heap's space between runs, its pages faulted in already). */
-    alloc?: ArrayAlloc;
+    /** The rank order, when the caller made it already (rankOrder(scores), or rankOrderIn on a graph's heap). */
+    order?: Uint32Array;
   } = {},
 ): Promise<void> {
   if (idCount(ids) !== scores.length) {
     throw new RangeError(`ids must name ${scores.length} nodes, one per score. Value: ${idCount(ids)}`);
   }
-  const order = rankOrder(scores, options.alloc);
+  const order = options.order ?? rankOrder(scores);
+  if (order.length !== scores.length) throw new RangeError(`order must rank ${scores.length} nodes. Value: ${order.length}`);
   if (format === "csv") return writeAtomic(path, (fh) => writeCsv(fh, ids, scores, order, options.rowPool));
   // Arrow and Parquet load on first use: their modules take longer to start than a whole small CSV run.
   const arrow = await import("apache-arrow");
