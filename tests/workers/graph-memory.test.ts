@@ -4,6 +4,7 @@ import { mkdtempSync, rmSync } from "node:fs";
 import { tmpdir } from "node:os";
 import { join } from "node:path";
 import { afterAll, describe, expect, it } from "vitest";
+import { countMergedEdges, mergedEdgesFromPrefix, planShards } from "../../workers/src/core/shard-plan";
 import { rank, RankPool } from "../../workers/src/engine/rank";
 import { loadGraphStore } from "../../workers/src/graph-store/load";
 import { writeGraphStore } from "../../workers/src/graph-store/write";
@@ -72,6 +73,13 @@ describe("merged duplicates as repeated sources", () => {
       return Array.from({ length: Number(w ?? 1) }, () => pair);
     });
     expect(edgeList(asRepeats.graph)).toEqual(expanded.sort());
+    // The build keeps the prefix sums of distinct sources per list: any node range's merged edges without a pass.
+    const prefix = asRepeats.graph.distinctInOffsets as Uint32Array;
+    expect(prefix[asRepeats.graph.n]).toBe(asRepeats.graph.mergedEdges);
+    for (const count of [1, 3, 8]) {
+      const plan = planShards(asRepeats.graph.inOffsets, asRepeats.graph.n, count, 64);
+      expect(mergedEdgesFromPrefix(plan, prefix)).toEqual(countMergedEdges(plan, asRepeats.graph.inOffsets, asRepeats.graph.sources));
+    }
   });
 
   it("gives the scores of the weights layout: multiplicities counted in weighted runs, each edge once otherwise", async () => {

@@ -21,6 +21,8 @@ export type NodeIds =
  * `mergedEdges` is set when duplicate edges were merged by keeping each copy as a repeated source (cheaper than a
  * weight per edge when duplicates are few): a source listed k times in an in-list is one edge weighing k, and
  * mergedEdges counts it once (m counts it k times). Unweighted runs on such a graph count each edge once.
+ * `distinctInOffsets` (n+1), when the build kept it, holds the prefix sums of each in-list's distinct sources: the
+ * merged edges of any node range without a pass over its lists.
  * `heap` is set when inOffsets, sources, weights and outWeight all live in it (runs then borrow its free space).
  */
 export interface Graph {
@@ -32,6 +34,7 @@ export interface Graph {
   outWeight: Float64Array;
   ids: NodeIds;
   mergedEdges?: number;
+  distinctInOffsets?: Uint32Array;
   heap?: SharedHeap;
 }
 

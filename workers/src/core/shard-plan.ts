@@ -78,3 +78,8 @@ export function countMergedEdges(plan: ShardRange[], inOffsets: Uint32Array, sou
     return { ...r, edges: r.edges - repeats };
   });
 }
+
+/** countMergedEdges from the prefix sums of distinct in-list sources (Graph.distinctInOffsets): O(1) a range. */
+export function mergedEdgesFromPrefix(plan: ShardRange[], distinctInOffsets: Uint32Array): ShardRange[] {
+  return plan.map((r) => ({ ...r, edges: distinctInOffsets[r.end] - distinctInOffsets[r.start] }));
+}

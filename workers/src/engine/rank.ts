@@ -2,7 +2,7 @@
 import { availableParallelism } from "node:os";
 import type { Graph } from "../core/graph";
 import { combineBlocks } from "../core/pull-step-csr";
-import { countMergedEdges, planShards } from "../core/shard-plan";
+import { countMergedEdges, mergedEdgesFromPrefix, planShards } from "../core/shard-plan";
 import { stepScalars } from "../core/teleport";
 import { RankPool } from "./rank-pool";
 import { prepareRunState, type RunState } from "./run-state";
@@ -128,7 +128,11 @@ async function steps(s: RunState, params: RankParams, hooks: RankHooks, pool: Ra
   const runId = `${process.pid}-${++runCounter}`;
   const balanced = planShards(s.views.inOffsets, s.n, params.shards ?? pool.threads, s.blockNodes);
   // Balanced on the arcs the kernel reads; reported as the graph's edges.
-  const plan = s.repeats ? countMergedEdges(balanced, s.views.inOffsets, s.views.sources) : balanced;
+  const plan = !s.repeats
+    ? balanced
+    : s.distinctInOffsets
+      ? mergedEdgesFromPrefix(balanced, s.distinctInOffsets)
+      : countMergedEdges(balanced, s.views.inOffsets, s.views.sources);
   const shards: ShardState[] = plan.map((r) => ({ ...r, state: "queued", attempts: 0 }));
   const started = new SharedArrayBuffer(4 * Math.max(1, shards.length));
   const retry = hooks.retry ?? DEFAULT_RETRY;

@@ -24,6 +24,8 @@ export interface RunState {
   mass: number;
   /** The in-lists keep merged duplicates as repeated sources (Graph.mergedEdges). */
   repeats: boolean;
+  /** Prefix sums of distinct in-list sources, when the graph has them (see Graph.distinctInOffsets). */
+  distinctInOffsets: Uint32Array | null;
   /** Gives borrowed heap space back; the views must not be used after. */
   release(): void;
 }
@@ -184,6 +186,7 @@ function buildState(
     danglingMass: sums.dangling,
     mass: sums.sum,
     repeats: graph.mergedEdges !== undefined && !distinct,
+    distinctInOffsets: graph.distinctInOffsets ?? null,
     release: () => loan?.release(),
   };
 }

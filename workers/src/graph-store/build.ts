@@ -280,7 +280,10 @@ async function buildCsr(
       return { graph: { ...base, m: arcs, sources, weights: null }, report: reportOf(0), degrees };
     }
     if (policy.duplicateLayout === "repeats" && 2 * dups <= arcs) {
-      return { graph: { ...base, m: arcs, sources, weights: null, mergedEdges: arcs - dups }, report: reportOf(dups), degrees };
+      const distinctInOffsets = new Uint32Array(n + 1);
+      for (let v = 0; v < n; v++) distinctInOffsets[v + 1] = distinctInOffsets[v] + degrees.in[v];
+      const graph: Graph = { ...base, m: arcs, sources, weights: null, mergedEdges: arcs - dups, distinctInOffsets };
+      return { graph, report: reportOf(dups), degrees };
     }
     const weights = finalF64(arcs - dups);
     const m = mergeUnitArcs(n, inOffsets, sources, weights);
