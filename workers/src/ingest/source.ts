@@ -38,6 +38,11 @@ export class ChunkReader {
   private gunzip: Gunzip | null = null;
   private pieces: AsyncIterator<Buffer> | null = null;
   private pending: Buffer | null = null;
+  /** Plain files: two read buffers; the next block is read into one while the other is hashed and handed out. */
+  private readonly blocks: Buffer[] = [];
+  private turn = 0;
+  private ahead: Promise<Buffer | null> | null = null;
+  private filePos = 0;
 
   private constructor(
     readonly path: string,
@@ -166,16 +171,10 @@ export class ChunkReader {
 
   /** Up to `room` content bytes into buf at `at`; 0 at the end of the file. */
   private async fill(buf: Uint8Array, at: number, room: number): Promise<number> {
-    if (!this.gzip) {
-      const { bytesRead } = await this.fh.read(buf, at, room, this.bytesRead);
-      if (bytesRead > 0) this.hash.update(buf.subarray(at, at + bytesRead));
-      this.bytesRead += bytesRead;
-      return bytesRead;
-    }
     let n = 0;
     while (n < room) {
       if (!this.pending || this.pending.length === 0) {
-        const r = await this.nextPiece();
+        const r = this.gzip ? await this.nextPiece() : await this.nextBlock();
         if (r === null) break;
         this.pending = r;
       }
@@ -185,6 +184,31 @@ export class ChunkReader {
       n += take;
     }
     return n;
+  }
+
+  /**
+   * The next block of a plain file, hashed; the read of the block after it starts first, into the other buffer (the
+   * one whose bytes were all handed out), so the disk or page cache works while this thread hashes and parses.
+   */
+  private async nextBlock(): Promise<Buffer | null> {
+    const block = await (this.ahead ?? this.readBlock());
+    this.ahead = block ? this.readBlock() : null;
+    if (block) {
+      this.hash.update(block);
+      this.bytesRead += block.length;
+    }
+    return block;
+  }
+
+  private async readBlock(): Promise<Buffer | null> {
+    const size = this.limits.chunkBytes;
+    // Two buffers in turn: the one read into was handed out in full before this read starts.
+    this.turn ^= 1;
+    this.blocks[this.turn] ??= Buffer.allocUnsafe(size);
+    const buf = this.blocks[this.turn];
+    const { bytesRead } = await this.fh.read(buf, 0, size, this.filePos);
+    this.filePos += bytesRead;
+    return bytesRead > 0 ? buf.subarray(0, bytesRead) : null;
   }
 
   private startGunzip(): void {
