@@ -75,6 +75,20 @@ describe("bucketed build", () => {
     }
   }
 
+  it("equals it with hash-numbered ids (a relabel map per part) and with three threads", async () => {
+    const ingest = (run: IngestRun) => ingestEdgeFile(path, {}, { duplicateLayout: "repeats", ...run });
+    const plain = await ingest({ bucketBytes: Infinity, limits: { threads: 1 } });
+    for (const run of [
+      { hashIds: true, limits: { threads: 2, ...small } },
+      { limits: { threads: 3, ...small } },
+      { hashIds: true, heapMinBytes: 0, limits: { threads: 3, ...small } },
+    ]) {
+      const bucketed = await ingest({ bucketBytes: 4096, ...run });
+      sameGraph(plain.graph, bucketed.graph);
+      expect(bucketed.stats.duplicates).toBe(plain.stats.duplicates);
+    }
+  });
+
   it("equals it with duplicates merged into weights too", async () => {
     const ingest = (run: IngestRun) => ingestEdgeFile(path, {}, { duplicateLayout: "weights", ...run });
     const plain = await ingest({ bucketBytes: Infinity, limits: { threads: 1 } });

@@ -4,6 +4,7 @@ import { readFileSync } from "node:fs";
 import { join } from "node:path";
 import { afterAll, describe, expect, it } from "vitest";
 import { TempFiles } from "../fixtures/edges/edge-files";
+import { prng } from "./rank-test-graphs";
 
 const ROOT = join(import.meta.dirname, "..", "..");
 // The package's bin (a shell entry that sets glibc's huge-page tunable, then runs bin/stillpoint.mjs in-process).
@@ -93,6 +94,22 @@ describe("stillpoint rank", () => {
       expect(other.code, other.stderr).toBe(0);
       expect(strip(other)).toEqual(strip(bundled));
     }
+  });
+
+  it("writes the scores of a small, dense graph big enough for a shared heap (too little run space to borrow)", async () => {
+    // 100 nodes, 2.2M lines kept apart: 8.8 MB of graph arrays, so a heap, whose run space is only a few KB.
+    // No self-loops, so exactly 2.2M arcs: the heap then has 46 KB free, less than the rank order's arrays need.
+    const rnd = prng(9);
+    const lines = Array.from({ length: 2_200_000 }, () => {
+      const u = Math.floor(rnd() * 100);
+      return `${u} ${(u + 1 + Math.floor(rnd() * 99)) % 100}`;
+    });
+    const out = files.path("dense.csv");
+    const r = await stillpoint("rank", files.write(`${lines.join("\n")}\n`), "--keep-duplicates", "--out", out, "--json", "--top", "3");
+    expect(r.code, r.stderr).toBe(0);
+    const rows = readFileSync(out, "utf8").trim().split("\n");
+    expect(rows).toHaveLength(101);
+    expect(rows[1].split(",")[0]).toBe(JSON.parse(r.stdout).top[0].id);
   });
 
   it("writes every node's score to a CSV file in rank order", async () => {

@@ -123,8 +123,13 @@ describe("checkGraph", () => {
     expect(() => checkGraph({ ...g, sources })).not.toThrow();
     expect(() => checkGraph({ ...g, sources: sources.slice() })).toThrow(/graph\.sources\[5\]/);
     const marked = sources.slice();
-    markSourcesChecked(marked);
+    markSourcesChecked(marked, g.n);
     expect(() => checkGraph({ ...g, sources: marked })).not.toThrow();
+    // Trusted for the n it was checked against, scanned again for a smaller one.
+    const tiny = { n: 3, m: 3, inOffsets: Uint32Array.of(0, 1, 3, 3), sources: Uint32Array.of(0, 2, 2), weights: null, outWeight: Float64Array.of(1, 0, 2) };
+    markSourcesChecked(tiny.sources, 3);
+    expect(() => checkGraph(tiny)).not.toThrow();
+    expect(() => checkGraph({ ...tiny, n: 2, inOffsets: Uint32Array.of(0, 1, 3), outWeight: Float64Array.of(1, 0) })).toThrow(/must be < n = 2/);
   });
 });
 

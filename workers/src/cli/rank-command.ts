@@ -7,7 +7,7 @@ import { rank, RankPool, type RankResult } from "../engine/rank";
 import { orderListsModule } from "../graph-store/build";
 import { writeGraphStore } from "../graph-store/write";
 import { ingestEdgeFile, type IngestResult } from "../ingest/ingest";
-import { rankOrderIn, topK } from "../output/rank-order";
+import { rankOrderBytes, rankOrderIn, topK } from "../output/rank-order";
 import { writeScores, type ScoreFormat } from "../output/write-scores";
 import { progressBar } from "./progress";
 import { readSeeds, resolveSeeds } from "./seeds";
@@ -156,9 +156,10 @@ async function rankWith(
   const tIterated = performance.now();
 
   if (o.out && format) {
-    // The rank order is sorted in WebAssembly in the graph heap's run space when the run gave it back (its pages are
-    // in memory already).
-    const loan = graph.heap?.lend() ?? null;
+    // The rank order is sorted in WebAssembly in the graph heap's run space when the run gave it back and it is big
+    // enough (its pages are in memory already).
+    const heap = graph.heap && graph.heap.free >= rankOrderBytes(graph.n) ? graph.heap : null;
+    const loan = heap?.lend() ?? null;
     try {
       const order = loan ? rankOrderIn(loan.heap.memory, orderListsModule(), result.scores, (length) => loan.heap.u32(length)) : undefined;
       await writeScores(o.out, format, graph.ids, result.scores, {

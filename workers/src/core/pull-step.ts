@@ -95,18 +95,18 @@ export function contributions(a: {
   return contributionsCsr(a.start, a.end, a.x, a.outWeight, a.c, a.blockSums, a.blockNodes);
 }
 
-/** Source arrays already known to hold only indexes below their graph's n: checked here, or built so. */
-const checkedSources = new WeakSet<Uint32Array>();
+/** Source arrays already known to hold only indexes below the n given here: checked here, or built so. */
+const checkedSources = new WeakMap<Uint32Array, number>();
 
-/** Records that every entry of `sources` is below its graph's n (the build makes them so; see checkGraph). */
-export function markSourcesChecked(sources: Uint32Array): void {
-  checkedSources.add(sources);
+/** Records that every entry of `sources` is below n (the build makes them so; see checkGraph). */
+export function markSourcesChecked(sources: Uint32Array, n: number): void {
+  checkedSources.set(sources, n);
 }
 
 /**
  * Validates a CSR-by-target graph once before iterating: offsets start at 0, never decrease and end at m; every
  * source index is < n; weights and out-weights are finite and ≥ 0. O(n + m), sequential reads only; the scan of the
- * sources is skipped for an array already checked (markSourcesChecked).
+ * sources is skipped for an array already checked against an n no larger (markSourcesChecked).
  */
 export function checkGraph(g: {
   n: number;
@@ -129,9 +129,9 @@ export function checkGraph(g: {
     const w = g.outWeight[v];
     if (!(w >= 0 && w < Infinity)) fail(`graph.outWeight[${v}]`, w, "must be finite and ≥ 0");
   }
-  if (!checkedSources.has(g.sources)) {
+  if (!((checkedSources.get(g.sources) ?? Infinity) <= n)) {
     for (let e = 0; e < m; e++) if (g.sources[e] >= n) fail(`graph.sources[${e}]`, g.sources[e], `must be < n = ${n}`);
-    checkedSources.add(g.sources);
+    checkedSources.set(g.sources, n);
   }
   if (g.weights !== null) {
     for (let e = 0; e < m; e++) {

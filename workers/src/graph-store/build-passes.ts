@@ -27,10 +27,8 @@ let scratch = { src: new Uint32Array(0), dst: new Uint32Array(0), bucket: new Ui
 
 export function relabelArcs(t: PassRelabel): void {
   const first = t.segments[0];
-  if (t.lanes && first?.bucket && first.starts && t.segments.every((s) => s.fmap === first.fmap && s.bucket === first.bucket && s.starts)) {
-    relabelInWasm(t.lanes, t.segments as Array<Required<PassRelabel["segments"][number]>>);
-    return;
-  }
+  const shared = first?.bucket && first.starts && t.segments.every((s) => s.fmap === first.fmap && s.bucket === first.bucket && s.starts);
+  if (t.lanes && shared && relabelInWasm(t.lanes, t.segments as Array<Required<PassRelabel["segments"][number]>>)) return;
   for (const { src, dst, fmap, bucket, starts } of t.segments) {
     if (bucket === undefined || starts === undefined) {
       for (let i = 0; i < src.length; i++) {
@@ -56,17 +54,28 @@ type RelabelPartition = (
 /** This thread's memory for lane-passes.ts, kept across passes (its pages are in memory after the first). */
 let laneMemory: WebAssembly.Memory | null = null;
 
-/** A view of `bytes` bytes of this thread's lane memory from byte 0, grown as needed. */
-function laneBytes(bytes: number): WebAssembly.Memory {
+/** Most lane memory a pass may use (a linear memory holds 4 GiB at most); bigger passes run in JS. */
+const LANE_MAX_BYTES = 3 * 2 ** 30;
+
+/** This thread's lane memory, grown to `bytes` bytes, or null past LANE_MAX_BYTES (or when it cannot grow). */
+function laneBytes(bytes: number): WebAssembly.Memory | null {
+  if (bytes > LANE_MAX_BYTES) return null;
   const pages = Math.ceil(bytes / 65_536);
-  laneMemory ??= new WebAssembly.Memory({ initial: pages });
-  const have = laneMemory.buffer.byteLength / 65_536;
-  if (have < pages) laneMemory.grow(pages - have);
+  try {
+    laneMemory ??= new WebAssembly.Memory({ initial: pages });
+    const have = laneMemory.buffer.byteLength / 65_536;
+    if (have < pages) laneMemory.grow(pages - have);
+  } catch {
+    return null;
+  }
   return laneMemory;
 }
 
-/** partition() for segments sharing one fmap and bucket table: each copied in, relabelled and grouped, copied out. */
-function relabelInWasm(module: WebAssembly.Module, segments: Array<Required<PassRelabel["segments"][number]>>): void {
+/**
+ * partition() for segments sharing one fmap and bucket table: each copied in, relabelled and grouped, copied out.
+ * False (nothing done) when the tables do not fit this thread's lane memory.
+ */
+function relabelInWasm(module: WebAssembly.Module, segments: Array<Required<PassRelabel["segments"][number]>>): boolean {
   const { fmap, bucket } = segments[0];
   const buckets = segments[0].starts.length - 1;
   const piece = segments.reduce((a, s) => Math.max(a, s.src.length), 0);
@@ -81,6 +90,7 @@ function relabelInWasm(module: WebAssembly.Module, segments: Array<Required<Pass
   const C = TB + align(piece);
   const ST = C + align(16 * buckets);
   const memory = laneBytes(ST + align(4 * (buckets + 1)));
+  if (memory === null) return false;
   const run = new WebAssembly.Instance(module, { env: { memory } }).exports.relabelPartition as RelabelPartition;
   const u32 = new Uint32Array(memory.buffer);
   new Uint32Array(memory.buffer, F, fmap.length).set(fmap);
@@ -94,6 +104,7 @@ function relabelInWasm(module: WebAssembly.Module, segments: Array<Required<Pass
     dst.set(u32.subarray(OD >> 2, (OD >> 2) + k));
     starts.set(u32.subarray(ST >> 2, (ST >> 2) + buckets + 1));
   }
+  return true;
 }
 
 /**
@@ -342,10 +353,13 @@ export function scatterByTarget(t: PassD): number {
     for (const seg of t.segments) scatterRange(t, seg, 0, seg.src.length, vLo, vHi);
     dups += sortLists(t, vLo, vHi);
   }
+  // The JS scratch goes with the pass (this may be a long-lived thread).
+  pairs = NO_PAIRS;
   return dups;
 }
 
-let pairs = { u: new Uint32Array(0), v: new Uint32Array(0), u2: new Uint32Array(0), v2: new Uint32Array(0) };
+const NO_PAIRS = { u: new Uint32Array(0), v: new Uint32Array(0), u2: new Uint32Array(0), v2: new Uint32Array(0) };
+let pairs = NO_PAIRS;
 
 /** Bucket j's arcs into us/vs (self-loops dropped as the policy says); returns their number. */
 function gather(t: PassD, j: number, us: Uint32Array, vs: Uint32Array): number {
@@ -564,10 +578,7 @@ export interface PassCount {
 type CountValues = (src: number, dst: number, k: number, outRaw: number, inRaw: number, selfRaw: number) => void;
 
 export function countValues(t: PassCount): void {
-  if (t.lanes) {
-    countInWasm(t.lanes, t);
-    return;
-  }
+  if (t.lanes && countInWasm(t.lanes, t)) return;
   const { outRaw, inRaw, selfRaw } = t;
   for (const { src, dst } of t.edges) {
     for (let i = 0; i < src.length; i++) {
@@ -580,8 +591,11 @@ export function countValues(t: PassCount): void {
   }
 }
 
-/** countValues with the tables in this thread's lane memory (whose pages the partition then reuses). */
-function countInWasm(module: WebAssembly.Module, t: PassCount): void {
+/**
+ * countValues with the tables in this thread's lane memory (whose pages the partition then reuses). False (nothing
+ * done) when the tables do not fit it.
+ */
+function countInWasm(module: WebAssembly.Module, t: PassCount): boolean {
   const values = t.outRaw.length;
   const tableBytes = Math.ceil((4 * values) / 64) * 64;
   const OUT = 65_536;
@@ -590,6 +604,7 @@ function countInWasm(module: WebAssembly.Module, t: PassCount): void {
   const SRC = SELF + (t.selfRaw ? tableBytes : 0);
   const DST = SRC + 4 * COUNT_PIECE;
   const memory = laneBytes(DST + 4 * COUNT_PIECE);
+  if (memory === null) return false;
   const count = new WebAssembly.Instance(module, { env: { memory } }).exports.countValues as CountValues;
   const u32 = new Uint32Array(memory.buffer);
   u32.fill(0, OUT >> 2, SRC >> 2);
@@ -604,6 +619,7 @@ function countInWasm(module: WebAssembly.Module, t: PassCount): void {
   t.outRaw.set(u32.subarray(OUT >> 2, (OUT >> 2) + values));
   t.inRaw.set(u32.subarray(IN >> 2, (IN >> 2) + values));
   t.selfRaw?.set(u32.subarray(SELF >> 2, (SELF >> 2) + values));
+  return true;
 }
 
 const COUNT_PIECE = 1 << 16;

@@ -145,7 +145,7 @@ export async function buildGraph(
 ): Promise<{ graph: Graph; report: BuildReport; degrees?: NodeDegrees }> {
   const built = await buildCsr(input, policy, runner, reserve, passesDone);
   // Every source is a relabelled node id, below n by construction: runs need not scan them again.
-  markSourcesChecked(built.graph.sources);
+  markSourcesChecked(built.graph.sources, built.graph.n);
   return built;
 }
 

@@ -110,7 +110,7 @@ export class GraphStore {
     for (let u = 0; u < n; u++) if (!(outWeight[u] >= 0)) throw this.corrupt(`out-weight.f64 has an invalid value at node ${u}`);
     const graph: Graph = { n, m, inOffsets, sources, weights, outWeight, ids: await this.loadIds() };
     // Every piece's sources were checked below n as they were read.
-    markSourcesChecked(sources);
+    markSourcesChecked(sources, n);
     if (mergedEdges !== undefined) graph.mergedEdges = mergedEdges;
     if (heap) graph.heap = heap;
     return graph;

@@ -42,6 +42,11 @@ export function rankOrderIn(memory: WebAssembly.Memory, module: WebAssembly.Modu
   return at === idx.byteOffset ? idx : idx2;
 }
 
+/** Bytes rankOrderIn carves for n scores (seven arrays, each aligned to 64 bytes). */
+export function rankOrderBytes(n: number): number {
+  return 6 * (4 * n + 64) + 4 * DIGITS.length * SLOTS + 64;
+}
+
 /** The descending sort key of each score as two words (see rankOrder). */
 function descendingKeys(scores: Float64Array, hi: Uint32Array, lo: Uint32Array): void {
   const n = scores.length;

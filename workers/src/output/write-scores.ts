@@ -55,7 +55,8 @@ async function writeCsv(fh: FileHandle, nodeIds: NodeIds, scores: Float64Array, 
       if (next < pieces) launch();
     }
   } catch (error) {
-    for (const piece of inFlight) piece.bytes.catch(() => {});
+    // Threads may still be reading the order and ids (perhaps borrowed memory the caller gives back next): wait.
+    await Promise.allSettled(inFlight.map((piece) => piece.bytes));
     throw error;
   }
 }
