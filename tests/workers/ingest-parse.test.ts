@@ -162,6 +162,25 @@ describe("layout", () => {
     expect(r.stats.bytesRead).toBe(text.length);
   });
 
+  it("fingerprints every raw byte whatever the chunking: a BOM, lines across chunks, an over-long line, no final newline", async () => {
+    const { createHash } = await import("node:crypto");
+    const lines = Array.from({ length: 30_000 }, (_, i) => `${i % 977} ${(i * 31) % 1013}`);
+    const cases: Array<[string, Buffer]> = [
+      ["plain", Buffer.from(`${lines.join("\n")}\n`)],
+      ["bom, no final newline", Buffer.concat([Buffer.from([0xef, 0xbb, 0xbf]), Buffer.from(lines.join("\n"))])],
+      // A comment line longer than the line limit (1 MiB) is replaced by a mark for the parser, not in the fingerprint.
+      ["over-long line", Buffer.from(`${lines.slice(0, 100).join("\n")}\n# ${"x".repeat((1 << 20) + 5000)}\n${lines.slice(100).join("\n")}\n`)],
+    ];
+    for (const [name, bytes] of cases) {
+      const want = createHash("sha256").update(bytes).digest("hex");
+      for (const limits of [{}, { chunkBytes: 4096, parallelMinBytes: 0, threads: 2 }]) {
+        const r = await ingestEdgeFile(files.write(bytes), { maxBadLines: 10 }, { limits }).catch((e: unknown) => e);
+        const fingerprint = r instanceof IngestError ? null : (r as Awaited<ReturnType<typeof ingestEdgeFile>>).stats.fingerprint;
+        expect(fingerprint, `${name} ${JSON.stringify(limits)}`).toBe(want);
+      }
+    }
+  });
+
   it("keeps the weight range even when weights are not used", async () => {
     const r = await edgesOf("1,2,0.25\n2,3,1e3\n3,1,7\n");
     expect(r.stats.weight).toEqual({ min: 0.25, max: 1000 });

@@ -38,10 +38,10 @@ export class ChunkReader {
   private gunzip: Gunzip | null = null;
   private pieces: AsyncIterator<Buffer> | null = null;
   private pending: Buffer | null = null;
-  /** Plain files: two read buffers; the next block is read into one while the other is hashed and handed out. */
-  private readonly blocks: Buffer[] = [];
-  private turn = 0;
-  private ahead: Promise<Buffer | null> | null = null;
+  /** Bytes cur[0, hashed) are in the fingerprint (or were added here, not read). */
+  private hashed = 0;
+  /** Plain files: the read into cur at curLen, started when the previous chunk was emitted. */
+  private ahead: Promise<number> | null = null;
   private filePos = 0;
 
   private constructor(
@@ -99,14 +99,18 @@ export class ChunkReader {
       if (this.atStart) {
         this.atStart = false;
         if (this.curLen >= 3 && this.cur[0] === BOM[0] && this.cur[1] === BOM[1] && this.cur[2] === BOM[2]) {
+          this.hashPending();
           this.cur.copyWithin(0, 3, this.curLen);
           this.curLen -= 3;
+          this.hashed = this.curLen;
         }
       }
       if (this.skipping) {
         const nl = this.cur.subarray(0, this.curLen).indexOf(10);
         if (nl < 0) {
+          this.hashPending();
           this.curLen = 0;
+          this.hashed = 0;
           continue;
         }
         this.endSkip(nl);
@@ -121,15 +125,34 @@ export class ChunkReader {
     return null;
   }
 
-  /** Emit cur[0, cut) and carry the rest into a fresh buffer. */
+  /**
+   * Emit cur[0, cut) and carry the rest into a fresh buffer. A plain file's next read, straight into that buffer,
+   * starts before this chunk's bytes are hashed, so the disk or page cache works while this thread hashes.
+   */
   private emit(cut: number): Chunk {
-    const chunk: Chunk = { seq: this.seq++, buffer: this.cur.buffer as ArrayBuffer, len: cut };
+    const done = this.cur;
+    const doneLen = this.curLen;
+    const chunk: Chunk = { seq: this.seq++, buffer: done.buffer as ArrayBuffer, len: cut };
     const next = new Uint8Array(this.take());
-    const rest = this.curLen - cut;
-    if (rest > 0) next.set(this.cur.subarray(cut, this.curLen));
+    const rest = doneLen - cut;
+    if (rest > 0) next.set(done.subarray(cut, doneLen));
     this.cur = next;
     this.curLen = rest;
+    if (!this.gzip && !this.done) {
+      this.ahead = this.readPlain(next, rest, next.length - rest);
+      // Awaited by the next fill; if the ingest stops first, its failure must not surface on its own.
+      this.ahead.catch(() => {});
+    }
+    // A gzip file's fingerprint is taken over its compressed bytes as they are read (see startGunzip).
+    if (!this.gzip && this.hashed < doneLen) this.hash.update(done.subarray(this.hashed, doneLen));
+    this.hashed = rest;
     return chunk;
+  }
+
+  /** Fingerprint the bytes of cur read but not hashed yet (before they are dropped or rewritten). */
+  private hashPending(): void {
+    if (!this.gzip && this.hashed < this.curLen) this.hash.update(this.cur.subarray(this.hashed, this.curLen));
+    this.hashed = this.curLen;
   }
 
   /** A line fills the whole buffer: let it grow up to MAX_LINE_BYTES, then replace it with the mark. */
@@ -141,12 +164,15 @@ export class ChunkReader {
       this.cur = bigger;
       return;
     }
+    this.hashPending();
     this.curLen = lineStart;
+    this.hashed = lineStart;
     this.skipping = true;
   }
 
   /** The over-long line ends at cur[nl]: keep what follows, after the mark. */
   private endSkip(nl: number): void {
+    this.hashPending();
     this.skipping = false;
     const tail = this.done ? new Uint8Array(0) : this.cur.slice(nl + 1, this.curLen);
     this.curLen = 0;
@@ -161,20 +187,29 @@ export class ChunkReader {
       bigger.set(this.cur.subarray(0, this.curLen));
       this.cur = bigger;
     }
+    this.hashPending();
     this.cur.set(bytes, this.curLen);
     this.curLen += bytes.length;
+    // Added here, not read: never part of the fingerprint.
+    this.hashed = this.curLen;
   }
 
   private take(): ArrayBuffer {
     return this.pool.pop() ?? new ArrayBuffer(this.limits.chunkBytes);
   }
 
-  /** Up to `room` content bytes into buf at `at`; 0 at the end of the file. */
+  /** Up to `room` content bytes into buf at `at`; 0 at the end of the file. Plain files are hashed at emit(). */
   private async fill(buf: Uint8Array, at: number, room: number): Promise<number> {
+    if (!this.gzip) {
+      const ahead = this.ahead;
+      this.ahead = null;
+      // A read started at emit() went to exactly this buffer, offset and room.
+      return ahead ? await ahead : await this.readPlain(buf, at, room);
+    }
     let n = 0;
     while (n < room) {
       if (!this.pending || this.pending.length === 0) {
-        const r = this.gzip ? await this.nextPiece() : await this.nextBlock();
+        const r = await this.nextPiece();
         if (r === null) break;
         this.pending = r;
       }
@@ -186,29 +221,11 @@ export class ChunkReader {
     return n;
   }
 
-  /**
-   * The next block of a plain file, hashed; the read of the block after it starts first, into the other buffer (the
-   * one whose bytes were all handed out), so the disk or page cache works while this thread hashes and parses.
-   */
-  private async nextBlock(): Promise<Buffer | null> {
-    const block = await (this.ahead ?? this.readBlock());
-    this.ahead = block ? this.readBlock() : null;
-    if (block) {
-      this.hash.update(block);
-      this.bytesRead += block.length;
-    }
-    return block;
-  }
-
-  private async readBlock(): Promise<Buffer | null> {
-    const size = this.limits.chunkBytes;
-    // Two buffers in turn: the one read into was handed out in full before this read starts.
-    this.turn ^= 1;
-    this.blocks[this.turn] ??= Buffer.allocUnsafe(size);
-    const buf = this.blocks[this.turn];
-    const { bytesRead } = await this.fh.read(buf, 0, size, this.filePos);
+  private async readPlain(buf: Uint8Array, at: number, room: number): Promise<number> {
+    const { bytesRead } = await this.fh.read(buf, at, room, this.filePos);
     this.filePos += bytesRead;
-    return bytesRead > 0 ? buf.subarray(0, bytesRead) : null;
+    this.bytesRead += bytesRead;
+    return bytesRead;
   }
 
   private startGunzip(): void {
