@@ -8,25 +8,10 @@ import type { Graph } from "../../workers/src/core/graph";
 import { ingestEdgeFile, type IngestRun } from "../../workers/src/ingest/ingest";
 import { compileAssembly } from "../fixtures/assembly";
 import { TempFiles } from "../fixtures/edges/edge-files";
-import { prng, sameBits } from "./rank-test-graphs";
+import { sameBits, skewedEdgeText } from "./rank-test-graphs";
 
 const files = new TempFiles();
 afterAll(() => files.remove());
-
-/** Skewed random lines with repeats, self-loops and a few hubs, in no particular order. */
-function edgeText(seed: number, n: number, lines: number): string {
-  const rnd = prng(seed);
-  const out: string[] = [];
-  for (let i = 0; i < lines; i++) {
-    const a = rnd();
-    const b = rnd();
-    const u = 7 + Math.floor(a * a * n);
-    const v = rnd() < 0.02 ? u : 7 + Math.floor(b * b * b * n);
-    out.push(`${u} ${v}`);
-    if (rnd() < 0.1) out.push(`${u} ${v}`);
-  }
-  return `${out.join("\n")}\n`;
-}
 
 function sameGraph(a: Graph, b: Graph): void {
   expect(b.n).toBe(a.n);
@@ -53,7 +38,8 @@ describe("committed build binaries", () => {
 });
 
 describe("bucketed build", () => {
-  const path = files.write(edgeText(5, 20_000, 60_000));
+  // Skewed lines with repeats, self-loops and a few hubs, in no particular order.
+  const path = files.write(skewedEdgeText(5, 20_000, 60_000, { base: 7, repeats: 0.1, selfLoops: 0.02 }));
   const small = { chunkBytes: 16 * 1024, parallelMinBytes: 0 };
 
   for (const selfLoops of ["drop", "keep"] as const) {

@@ -11,7 +11,7 @@ import { writeGraphStore } from "../../workers/src/graph-store/write";
 import { ingestEdgeFile } from "../../workers/src/ingest/ingest";
 import { degreeStats } from "../../workers/src/ingest/stats";
 import { edgeList, TempFiles } from "../fixtures/edges/edge-files";
-import { l1, PARAMS, prng, sameBits } from "./rank-test-graphs";
+import { l1, PARAMS, sameBits, skewedEdgeText } from "./rank-test-graphs";
 
 const files = new TempFiles();
 const dirs: string[] = [];
@@ -22,23 +22,8 @@ afterAll(async () => {
   await pool.close();
 });
 
-/** A skewed random edge list with many repeated lines, dangling nodes and self-loops, as text. */
-function edgeText(seed: number, n: number, lines: number): string {
-  const rnd = prng(seed);
-  const out: string[] = [];
-  for (let i = 0; i < lines; i++) {
-    const a = rnd();
-    const b = rnd();
-    const u = 100 + Math.floor(a * a * n);
-    const v = 100 + Math.floor(b * b * b * n);
-    if (u % 7 === 3) continue; // a share of nodes only ever receive: dangling
-    out.push(`${u}\t${v}`);
-    if (rnd() < 0.15) out.push(`${u}\t${v}`);
-  }
-  return `${out.join("\n")}\n`;
-}
-
-const TEXT = edgeText(17, 3000, 40_000);
+// Many repeated lines, dangling nodes (a share of ids only ever receive) and self-loops.
+const TEXT = skewedEdgeText(17, 3000, 40_000, { base: 100, repeats: 0.15, skip: (u) => u % 7 === 3 });
 const weightedRun = { ...PARAMS, weighted: true, tolerance: 1e-12 };
 const plainRun = { ...PARAMS, weighted: false, tolerance: 1e-12 };
 

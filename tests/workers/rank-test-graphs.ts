@@ -40,6 +40,31 @@ export function randomEdges(seed: number, n: number, avgOut: number, danglingSha
 }
 
 /** Ingest's default policies: optionally drop self-loops, merge duplicate (src, dst) pairs by summing weights. */
+/**
+ * A skewed random edge list as text, one "u v" line per edge: sources spread as a², targets as b³ over n ids from
+ * `base`; a `repeats` share of lines written twice, a `selfLoops` share of lines u → u, and ids where `skip(u)` holds
+ * never a source (dangling nodes).
+ */
+export function skewedEdgeText(
+  seed: number,
+  n: number,
+  lines: number,
+  o: { base: number; repeats: number; selfLoops?: number; skip?: (u: number) => boolean },
+): string {
+  const rnd = prng(seed);
+  const out: string[] = [];
+  for (let i = 0; i < lines; i++) {
+    const a = rnd();
+    const b = rnd();
+    const u = o.base + Math.floor(a * a * n);
+    const v = o.selfLoops && rnd() < o.selfLoops ? u : o.base + Math.floor(b * b * b * n);
+    if (o.skip?.(u)) continue;
+    out.push(`${u}\t${v}`);
+    if (rnd() < o.repeats) out.push(`${u}\t${v}`);
+  }
+  return `${out.join("\n")}\n`;
+}
+
 export function applyPolicies(e: EdgeList, keepSelfLoops: boolean): EdgeList {
   const merged = new Map<string, number>();
   const order: [number, number][] = [];
