@@ -4,6 +4,7 @@ import { availableParallelism } from "node:os";
 import { extname } from "node:path";
 import type { Graph, NodeIds } from "../core/graph";
 import { rank, RankPool, type RankResult } from "../engine/rank";
+import { preloadRankPool } from "../engine/rank-pool";
 import { orderListsModule } from "../graph-store/build";
 import { writeGraphStore } from "../graph-store/write";
 import { ingestEdgeFile, type IngestResult } from "../ingest/ingest";
@@ -114,7 +115,11 @@ async function rankWith(
         limits: { threads },
         // Every run here weighs an edge by its merged multiplicity, so repeated sources serve as well as weights.
         duplicateLayout: "repeats",
-        onProgress: (p) => parseBar.update(p.bytesRead, p.totalBytes, p.phase === "parse" ? `${p.rows} lines` : "building"),
+        onProgress: (p) => {
+          // The build starts with a pass on the parse threads: time for this one to load the pool's package.
+          if (p.phase === "build") preloadRankPool();
+          parseBar.update(p.bytesRead, p.totalBytes, p.phase === "parse" ? `${p.rows} lines` : "building");
+        },
         onThreadsDone: startPool,
       },
     );

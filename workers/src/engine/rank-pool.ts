@@ -1,6 +1,7 @@
 // A pool of worker threads that run shard steps; one pool can serve many runs in turn.
-import { Piscina } from "piscina";
+import { createRequire } from "node:module";
 import { pathToFileURL } from "node:url";
+import type { Piscina } from "piscina";
 import type { CsvRowPool, CsvRowsTask } from "../output/csv-rows";
 import type { ShardDone, ShardTask } from "../tasks/rank-shard-task";
 import { bundledWorker } from "../tasks/ts-worker";
@@ -8,6 +9,24 @@ import { bundledWorker } from "../tasks/ts-worker";
 // Workers are .ts under tsx/Vitest and .js once built: load the task file with the same extension as this module.
 const EXT = import.meta.url.endsWith(".ts") ? ".ts" : ".js";
 const TASK_FILE = new URL(`../tasks/rank-shard${EXT}`, import.meta.url).href;
+
+// The thread-pool package takes tens of milliseconds to load: a command line loads it while it waits on other threads
+// (preloadRankPool), and the first pool otherwise loads it on the spot.
+let PoolClass: typeof Piscina | null = null;
+
+/** Starts loading the thread-pool package in the background (optional: RankPool loads it when still needed). */
+export function preloadRankPool(): void {
+  if (PoolClass) return;
+  import("piscina").then(
+    (m) => void (PoolClass ??= m.Piscina),
+    () => {},
+  );
+}
+
+function poolClass(): typeof Piscina {
+  PoolClass ??= (createRequire(import.meta.url)("piscina") as typeof import("piscina")).Piscina;
+  return PoolClass;
+}
 
 export class RankPool implements CsvRowPool {
   readonly threads: number;
@@ -22,7 +41,8 @@ export class RankPool implements CsvRowPool {
     // From TypeScript, workers start from a cached bundle of the task (no tsx loader in each thread) when esbuild is
     // there, else through tsx.
     const bundle = EXT === ".ts" ? bundledWorker(new URL(TASK_FILE)) : null;
-    this.#pool = new Piscina<ShardTask, ShardDone>({
+    const Pool = poolClass();
+    this.#pool = new Pool<ShardTask, ShardDone>({
       filename: bundle ? pathToFileURL(bundle).href : TASK_FILE,
       minThreads: opts.threads,
       maxThreads: opts.threads,
