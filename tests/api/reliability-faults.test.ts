@@ -49,6 +49,21 @@ describe("shard faults", () => {
     removeDir(dataDir);
   });
 
+  /** What POST /api/runs/:id/retry writes, then a runner without faults until the run's second attempt ends. */
+  async function retryAndWait(runId: number) {
+    await db.update(runs).set({ retryRequestedAt: new Date() }).where(eq(runs.id, runId));
+    const runner = await startRunner(runnerConfig(dataDir, team.teamId), { pool: rankPool });
+    try {
+      // The status stays needs-attention until a runner claims the retry request.
+      return await waitFor("the retried run to end", async () => {
+        const row = await runRow(db, runId);
+        return row.attempts === 2 && ["converged", "needs-attention", "failed"].includes(row.status) ? row : null;
+      }, 60_000);
+    } finally {
+      await runner.stop();
+    }
+  }
+
   it("a shard past its retry limit pauses the run as needs attention; retry resumes and matches an unfaulted run", async () => {
     const reference = await queueRun(db, team, graphId, params);
     const faulty = await queueRun(db, team, graphId, params, true);
@@ -86,19 +101,7 @@ describe("shard faults", () => {
     const before = (await iterationRows(db, faulty)).map((r) => [r.k, r.residual]);
     expect(before.map(([k]) => k)).toEqual(Array.from({ length: 44 }, (_, i) => i + 1));
 
-    // What POST /api/runs/:id/retry writes; a runner without faults picks it up.
-    await db.update(runs).set({ retryRequestedAt: new Date() }).where(eq(runs.id, faulty));
-    const second = await startRunner(runnerConfig(dataDir, team.teamId), { pool: rankPool });
-    let done;
-    try {
-      // The status stays needs-attention until a runner claims the retry request.
-      done = await waitFor("the retried run to end", async () => {
-        const row = await runRow(db, faulty);
-        return row.attempts === 2 && ["converged", "needs-attention", "failed"].includes(row.status) ? row : null;
-      }, 60_000);
-    } finally {
-      await second.stop();
-    }
+    const done = await retryAndWait(faulty);
     expect(done.status).toBe("converged");
     expect(done.attempts).toBe(2);
     expect(done.retryRequestedAt).toBeNull();
@@ -127,17 +130,7 @@ describe("shard faults", () => {
     }
     // The run stands paused for a while before someone asks for the retry.
     await new Promise((resolve) => setTimeout(resolve, 1_500));
-    await db.update(runs).set({ retryRequestedAt: new Date() }).where(eq(runs.id, runId));
-    const second = await startRunner(runnerConfig(dataDir, team.teamId), { pool: rankPool });
-    let done;
-    try {
-      done = await waitFor("the retried run to end", async () => {
-        const row = await runRow(db, runId);
-        return row.attempts === 2 && ["converged", "needs-attention", "failed"].includes(row.status) ? row : null;
-      }, 60_000);
-    } finally {
-      await second.stop();
-    }
+    const done = await retryAndWait(runId);
     expect(done.status).toBe("converged");
 
     const rows = await iterationRows(db, runId);

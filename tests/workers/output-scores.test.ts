@@ -7,7 +7,7 @@ import { Compression, ParquetFile, readParquet } from "parquet-wasm/node";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import type { NodeIds } from "../../workers/src/core/graph";
 import { SharedHeap } from "../../workers/src/core/shared-heap";
-import { orderListsModule } from "../../workers/src/graph-store/build";
+import { assemblyModule } from "../../workers/src/tasks/assembly";
 import { certainTop, rankOrder, rankOrderIn, ranks, topK } from "../../workers/src/output/rank-order";
 import { writeScores } from "../../workers/src/output/write-scores";
 import { prng, sameBits } from "./rank-test-graphs";
@@ -54,7 +54,7 @@ describe("rank order", () => {
       for (let i = 0; i < n; i += 13) s[i] = -s[i];
       if (n > 2) [s[0], s[1]] = [-0, 0];
       const heap = SharedHeap.create(7 * 4 * n + 6 * 2048 * 4 + 4096) as SharedHeap;
-      const order = rankOrderIn(heap.memory, orderListsModule(), s, (length) => heap.u32(length));
+      const order = rankOrderIn(heap.memory, assemblyModule("order-lists"), s, (length) => heap.u32(length));
       expect(order.buffer).toBe(heap.buffer);
       expect(Array.from(order)).toEqual(Array.from(rankOrder(s)));
     }

@@ -5,11 +5,11 @@ import { extname } from "node:path";
 import type { Graph, NodeIds } from "../core/graph";
 import { rank, RankPool, type RankResult } from "../engine/rank";
 import { preloadRankPool } from "../engine/rank-pool";
-import { orderListsModule } from "../graph-store/build";
 import { writeGraphStore } from "../graph-store/write";
 import { ingestEdgeFile, type IngestResult } from "../ingest/ingest";
 import { rankOrderBytes, rankOrderIn, topK } from "../output/rank-order";
 import { writeScores, type ScoreFormat } from "../output/write-scores";
+import { assemblyModule } from "../tasks/assembly";
 import { progressBar } from "./progress";
 import { readSeeds, resolveSeeds } from "./seeds";
 
@@ -166,7 +166,7 @@ async function rankWith(
     const heap = graph.heap && graph.heap.free >= rankOrderBytes(graph.n) ? graph.heap : null;
     const loan = heap?.lend() ?? null;
     try {
-      const order = loan ? rankOrderIn(loan.heap.memory, orderListsModule(), result.scores, (length) => loan.heap.u32(length)) : undefined;
+      const order = loan ? rankOrderIn(loan.heap.memory, assemblyModule("order-lists"), result.scores, (length) => loan.heap.u32(length)) : undefined;
       await writeScores(o.out, format, graph.ids, result.scores, {
         damping: String(o.damping),
         tolerance: String(o.tolerance),

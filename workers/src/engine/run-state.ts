@@ -6,7 +6,7 @@ import { checkGraph, contributions } from "../core/pull-step";
 import { outDegree, teleportVector } from "../core/teleport";
 import { sharedF64, sharedU32 } from "../graph-store/shared";
 import { graphBytes, runBytes, SharedHeap, type HeapLoan } from "../core/shared-heap";
-import { stepModule } from "../tasks/wasm-step";
+import { assemblyModule } from "../tasks/assembly";
 import { sliceOf, type RunBuffers, type RunViews } from "../tasks/rank-shard-task";
 
 export interface RunState {
@@ -163,7 +163,8 @@ function buildState(
   const views: RunViews = { inOffsets, sources, weights, outWeight, tel, x, c, blockSums };
   const buffers: RunBuffers = {
     memory: heap ? heap.memory : null,
-    module: heap ? stepModule() : null,
+    // Compiled here, once; worker threads get it from the task (see RunBuffers).
+    module: heap ? assemblyModule("pull-step") : null,
     inOffsets: sliceOf(inOffsets),
     sources: sliceOf(sources),
     weights: weights && sliceOf(weights),

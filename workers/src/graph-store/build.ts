@@ -4,7 +4,6 @@
 // lines and pages), ties by original id; with renumber off, by original id alone. Either way the graph depends only on
 // the set of input lines. Duplicate arcs stay adjacent in file order, so merged weights are summed in file order.
 
-import { readFileSync } from "node:fs";
 import type { Graph, NodeIds } from "../core/graph";
 import { markSourcesChecked } from "../core/pull-step";
 import type { ArcCounts, CanonicalEdges, EdgeSegment } from "../ingest/assemble";
@@ -29,6 +28,7 @@ import {
 } from "./build-passes";
 import { graphBytes, runBytes, SharedHeap } from "../core/shared-heap";
 import { HEAP_MIN_BYTES, sharedF64, sharedU32 } from "./shared";
+import { assemblyModule } from "../tasks/assembly";
 
 export interface BuildPolicy {
   directed: boolean;
@@ -204,7 +204,7 @@ async function buildCsr(
   });
   reserve?.stop();
   // Worker lanes partition in WebAssembly, in memory of their own that they keep for later builds.
-  const lanes = runner !== LOCAL_RUNNER && bucketOfFinal ? lanePassesModule() : undefined;
+  const lanes = runner !== LOCAL_RUNNER && bucketOfFinal ? assemblyModule("lane-passes") : undefined;
   await runner.run(splitByLength(relabel, slices).map((part) => ({ kind: "relabel" as const, task: { segments: part, lanes } })));
   fmaps.clear();
   const segments: PassSegment[] = pieces.map((seg) => ({ src: seg.src, dst: seg.dst, weight: seg.weight }));
@@ -230,7 +230,7 @@ async function buildCsr(
     for (let j = 0; j < buckets; j++) maxBucket = Math.max(maxBucket, inOffsets[cuts[j + 1]] - inOffsets[cuts[j]]);
     const scratchBytes = listsScratchBytes(maxBucket);
     const loanBytes = 4 * (n + 16) * (1 + (merge ? 1 + slices : 0)) + slices * (scratchBytes + 64);
-    const listsModule = heap && buckets > 1 && loanBytes <= heap.free ? orderListsModule() : null;
+    const listsModule = heap && buckets > 1 && loanBytes <= heap.free ? assemblyModule("order-lists") : null;
     const loan = listsModule && heap ? heap.lend() : null;
     const work = (length: number) => (loan ? loan.heap.u32(length) : sharedU32(length));
     const fill = work(n);
@@ -364,22 +364,6 @@ async function buildCsr(
     ...(heap ? { heap } : {}),
   };
   return { graph, report: reportOf(merged) };
-}
-
-let lanesCompiled: WebAssembly.Module | null = null;
-
-/** The parse lanes' count and relabel-and-partition passes (workers/assembly/lane-passes.ts), compiled once. */
-export function lanePassesModule(): WebAssembly.Module {
-  lanesCompiled ??= new WebAssembly.Module(readFileSync(new URL("../../assembly/lane-passes.wasm", import.meta.url)));
-  return lanesCompiled;
-}
-
-let listsCompiled: WebAssembly.Module | null = null;
-
-/** The bucket orderer and rank order (workers/assembly/order-lists.ts), compiled once. */
-export function orderListsModule(): WebAssembly.Module {
-  listsCompiled ??= new WebAssembly.Module(readFileSync(new URL("../../assembly/order-lists.wasm", import.meta.url)));
-  return listsCompiled;
 }
 
 /**

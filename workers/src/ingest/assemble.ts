@@ -5,7 +5,8 @@
 // otherwise ids go through hash tables: one per part during the parse, merged here.
 
 import type { NodeIds } from "../core/graph";
-import { LOCAL_RUNNER, lanePassesModule, type PassRunner } from "../graph-store/build";
+import { LOCAL_RUNNER, type PassRunner } from "../graph-store/build";
+import { assemblyModule } from "../tasks/assembly";
 import { sharedU32 } from "../graph-store/shared";
 import { BytesTable } from "./bytes-table";
 import type { IdMode, ParsedPart } from "./line-parser";
@@ -100,7 +101,7 @@ async function assembleRaw(parts: ParsedPart[], policy: CountPolicy, runner: Pas
   const bySlice: Array<Array<{ src: Uint32Array; dst: Uint32Array }>> = tables.map(() => []);
   parts.forEach((p, k) => bySlice[k % slices].push({ src: p.src, dst: p.dst }));
   // Worker lanes count in WebAssembly.
-  const lanes = runner === LOCAL_RUNNER ? undefined : lanePassesModule();
+  const lanes = runner === LOCAL_RUNNER ? undefined : assemblyModule("lane-passes");
   await runner.run(tables.map((t, k) => ({ kind: "count" as const, task: { edges: bySlice[k], ...t, lanes } })));
   onThreadsFree();
   // Tables beyond the second fold into it first (more than two count threads); the first two are summed on the way.

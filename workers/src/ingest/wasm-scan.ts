@@ -2,7 +2,7 @@
 // twice its speed. Bytes go into the module's memory a block at a time and the parsed ids come back out; the copies
 // cost a small share of what the scan saves.
 
-import { readFileSync } from "node:fs";
+import { assemblyModule } from "../tasks/assembly";
 import { scanIntegerLines, type ScanState } from "./fast-scan";
 
 type ScanFn = (
@@ -23,12 +23,10 @@ const W = DST + OUT_CAP * 4;
 const STATS = W + OUT_CAP * 8;
 const BYTES = STATS + 64;
 
-const WASM_FILE = new URL("../../assembly/scan-lines.wasm", import.meta.url);
-
 /** The compiled scanner, or null when the file cannot be read or compiled (the JS scanner then runs alone). */
 export function scanModule(): WebAssembly.Module | null {
   try {
-    return new WebAssembly.Module(readFileSync(WASM_FILE));
+    return assemblyModule("scan-lines");
   } catch {
     return null;
   }

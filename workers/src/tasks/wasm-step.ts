@@ -1,6 +1,6 @@
 // The WebAssembly step kernel inside a worker: one compiled module per thread, one instance per run's memory.
-import { readFileSync } from "node:fs";
 import { checkStep, type StepArgs } from "../core/pull-step";
+import { assemblyFile, assemblyModule } from "./assembly";
 
 type WasmPullStep = (
   start: number, end: number, inOffsets: number, sources: number, weights: number, outWeight: number,
@@ -8,17 +8,9 @@ type WasmPullStep = (
   blockSums: number, blockNodes: number,
 ) => void;
 
-export const WASM_FILE = new URL("../../assembly/pull-step.wasm", import.meta.url);
+export const WASM_FILE = assemblyFile("pull-step");
 
-let compiled: WebAssembly.Module | null = null;
-
-/** The kernel's compiled module, made once per thread; worker threads get it from the task (see RunBuffers). */
-export function stepModule(): WebAssembly.Module {
-  compiled ??= new WebAssembly.Module(readFileSync(WASM_FILE));
-  return compiled;
-}
-
-export function instantiateStep(memory: WebAssembly.Memory, module: WebAssembly.Module = stepModule()): WasmPullStep {
+export function instantiateStep(memory: WebAssembly.Memory, module: WebAssembly.Module = assemblyModule("pull-step")): WasmPullStep {
   const instance = new WebAssembly.Instance(module, { env: { memory } });
   return instance.exports.pullStep as WasmPullStep;
 }
