@@ -1,4 +1,5 @@
-// CSV score files formatted on pool threads are the same bytes as those formatted on the calling thread.
+// CSV score files written with a thread pool at hand are the same bytes as those written without one (string ids go
+// to the pool's threads; integer ids stay on the calling thread, in the score-text module, either way).
 import { mkdtemp, readFile, rm } from "node:fs/promises";
 import { tmpdir } from "node:os";
 import { join } from "node:path";

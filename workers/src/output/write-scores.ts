@@ -2,7 +2,8 @@
 import type { FileHandle } from "node:fs/promises";
 import type { NodeIds } from "../core/graph";
 import { writeAtomic } from "./atomic-file";
-import { csvIds, CSV_HEADER, formatRows, rowBound, type CsvRowPool } from "./csv-rows";
+import { assemblyModule } from "../tasks/assembly";
+import { csvIds, CSV_HEADER, formatRows, rowBound, ScoreText, type CsvRowPool } from "./csv-rows";
 import { rankOrder } from "./rank-order";
 import { scoreTable } from "./score-table";
 
@@ -14,26 +15,36 @@ const PIECE_BYTES = 4 << 20;
 const utf8 = new TextDecoder("utf-8", { fatal: true });
 
 /**
- * node_id,score,rank rows in rank order, formatted into reused buffers: here, or on the pool's threads (pieces in
- * flight while earlier ones are written). String ids are checked to be UTF-8 once, up front.
+ * node_id,score,rank rows in rank order, formatted into reused buffers: here, or (string ids) on the pool's threads
+ * (pieces in flight while earlier ones are written). String ids are checked to be UTF-8 once, up front.
  */
 async function writeCsv(fh: FileHandle, nodeIds: NodeIds, scores: Float64Array, order: Uint32Array, pool?: CsvRowPool): Promise<void> {
   if (nodeIds.kind === "string") checkUtf8(nodeIds.offsets, nodeIds.bytes);
-  let ids = csvIds(nodeIds);
+  const ids = csvIds(nodeIds);
   const bound = rowBound(ids);
   const pieceRows = Math.max(1, Math.min(PIECE_ROWS, Math.floor(PIECE_BYTES / bound)));
   await writeAll(fh, new TextEncoder().encode(CSV_HEADER));
   const n = order.length;
-  if (!pool || n < 2 * pieceRows) {
-    const out = new Uint8Array(Math.min(n, pieceRows) * bound);
-    for (let from = 0; from < n; from += pieceRows) {
+  const textModule = assemblyModule("score-text");
+  // Integer-id rows take the module about 0.1 µs each: this thread keeps up with the disk, and handing pieces to
+  // other threads costs more than it saves. String ids are spelled in JavaScript, so they go to the pool.
+  if (!pool || n < 2 * pieceRows || ids.kind === "integer") {
+    // Two buffers: one piece is formatted while the one before it is being written.
+    const rows = Math.min(n, pieceRows);
+    const buffers = [new Uint8Array(rows * bound), new Uint8Array(n > rows ? rows * bound : 0)];
+    const text = ScoreText.of(textModule);
+    let writing: Promise<void> = Promise.resolve();
+    for (let from = 0, k = 0; from < n; from += pieceRows, k ^= 1) {
       const to = Math.min(n, from + pieceRows);
-      await writeAll(fh, out.subarray(0, formatRows(ids, scores, order, from, to, out)));
+      const out = buffers[k];
+      const bytes = formatRows(ids, scores, order, from, to, out, text);
+      await writing;
+      writing = writeAll(fh, out.subarray(0, bytes));
     }
+    await writing;
     return;
   }
-  ids = ids.kind === "integer" ? { kind: "integer", words: sharedCopy(ids.words) } : { kind: "string", bytes: sharedCopy(ids.bytes), offsets: sharedCopy(ids.offsets) };
-  const task = { ids, scores: sharedCopy(scores), order: sharedCopy(order) };
+  const task = { ids: { kind: "string" as const, bytes: sharedCopy(ids.bytes), offsets: sharedCopy(ids.offsets) }, scores: sharedCopy(scores), order: sharedCopy(order), textModule };
   // A ring of shared output buffers, each reused once its rows are on disk.
   const spare: SharedArrayBuffer[] = [];
   const inFlight: Array<{ out: SharedArrayBuffer; bytes: Promise<number> }> = [];

@@ -2,7 +2,7 @@
 // the thread that starts the work: worker threads get their modules inside tasks, since their bundles live elsewhere.
 import { readFileSync } from "node:fs";
 
-export type AssemblyName = "pull-step" | "scan-lines" | "order-lists" | "lane-passes";
+export type AssemblyName = "pull-step" | "scan-lines" | "order-lists" | "lane-passes" | "score-text";
 
 const compiled = new Map<AssemblyName, WebAssembly.Module>();
 

@@ -1,6 +1,6 @@
 // Piscina task: one power-iteration step for one shard over shared memory.
 import { threadId } from "node:worker_threads";
-import { formatRows, type CsvRowsTask } from "../output/csv-rows";
+import { formatRows, ScoreText, type CsvRowsTask } from "../output/csv-rows";
 import { pullStep } from "../core/pull-step";
 import { injectFault } from "./fault";
 import { cachedRun, type ShardDone, type ShardTask } from "./rank-shard-task";
@@ -20,5 +20,5 @@ export default function rankShard(t: ShardTask): ShardDone {
 
 /** Piscina task "formatCsvRows": rows [from, to) into the task's shared buffer; returns the bytes written. */
 export function formatCsvRows(t: CsvRowsTask): number {
-  return formatRows(t.ids, t.scores, t.order, t.from, t.to, new Uint8Array(t.out));
+  return formatRows(t.ids, t.scores, t.order, t.from, t.to, new Uint8Array(t.out), t.textModule ? ScoreText.of(t.textModule) : undefined);
 }
