@@ -112,6 +112,24 @@ describe("stillpoint rank", () => {
     expect(rows[1].split(",")[0]).toBe(JSON.parse(r.stdout).top[0].id);
   });
 
+  it("runs on the threads that parsed a big file and writes the same bytes as one thread", { timeout: 120_000 }, async () => {
+    // Over 16 MiB, so two parse threads start; the run's steps and the string ids' CSV rows then go to those threads.
+    const rnd = prng(17);
+    const lines = Array.from({ length: 1_300_000 }, () => `harbour-${Math.floor(rnd() ** 3 * 90_000)}\tquay-${Math.floor(rnd() * 90_000)}`);
+    const path = files.write(`${lines.join("\n")}\n`);
+    const two = files.path("two.csv");
+    const one = files.path("one.csv");
+    const a = await stillpoint("rank", path, "--threads", "2", "--out", two, "--json", "--top", "0");
+    expect(a.code, a.stderr).toBe(0);
+    expect(JSON.parse(a.stdout).ingest.parseThreads).toBe(2);
+    const b = await stillpoint("rank", path, "--threads", "1", "--out", one, "--json", "--top", "0");
+    expect(b.code, b.stderr).toBe(0);
+    expect(JSON.parse(b.stdout).ingest.parseThreads).toBe(1);
+    const rows = readFileSync(two, "utf8");
+    expect(rows).toBe(readFileSync(one, "utf8"));
+    expect(rows.split("\n").length).toBeGreaterThan(100_000);
+  });
+
   it("writes every node's score to a CSV file in rank order", async () => {
     const out = files.path("scores.csv");
     const r = await stillpoint("rank", files.write(TINY_WEB), "--out", out, "--dangling", "uniform");

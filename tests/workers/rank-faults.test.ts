@@ -1,14 +1,19 @@
 // Retry, fault injection, cancellation, checkpoints and resume: every path ends with the same bits.
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { BLOCK_NODES } from "../../workers/src/core/graph";
-import { rank, RankPool, type FaultPlan, type IterationProgress, type RankParams } from "../../workers/src/engine/rank";
+import { LanePool } from "../../workers/src/engine/lane-pool";
+import { rank, RankPool, type FaultPlan, type IterationProgress, type RankParams, type ShardPool } from "../../workers/src/engine/rank";
+import { WorkerLane } from "../../workers/src/ingest/lanes";
 import { applyPolicies, PARAMS, randomEdges, sameBits, toGraph } from "./rank-test-graphs";
 
 let pool: RankPool;
+// The command line's pool: the threads its ingest parsed on, which must retry, replace and recover the same way.
+let lanePool: LanePool;
 beforeAll(() => {
   pool = new RankPool({ threads: 2 });
+  lanePool = new LanePool([new WorkerLane(), new WorkerLane()]);
 });
-afterAll(() => pool.close());
+afterAll(() => Promise.all([pool.close(), lanePool.close()]));
 
 const g = toGraph(applyPolicies(randomEdges(99, 5 * BLOCK_NODES, 4), true));
 const params: RankParams = { ...PARAMS, weighted: true, shards: 3 };
@@ -31,10 +36,11 @@ describe("retries", () => {
       ],
     ],
   ];
-  for (const [name, faults] of cases) {
-    it(`${name} is retried and the scores keep their bits`, { timeout: 120_000 }, async () => {
+  for (const [name, faults] of cases) for (const kind of ["thread pool", "lane pool"]) {
+    it(`${name} is retried and the scores keep their bits (${kind})`, { timeout: 120_000 }, async () => {
       const seen: IterationProgress[] = [];
-      const r = await rank(g, params, { pool, retry, faults, onIteration: (p) => void seen.push(p) });
+      const on: ShardPool = kind === "thread pool" ? pool : lanePool;
+      const r = await rank(g, params, { pool: on, retry, faults, onIteration: (p) => void seen.push(p) });
       expect(r.stopReason).toBe("converged");
       expect(sameBits(r.scores, clean.scores)).toBe(true);
       expect(r.residuals).toEqual(clean.residuals);
@@ -43,6 +49,9 @@ describe("retries", () => {
       expect(st).toMatchObject({ state: "done", attempts: f.attempt + 1 });
       expect(st?.lastError).toBeTruthy();
       expect(seen.find((p) => p.k === f.iteration + 1)?.shards[f.shard]).toMatchObject({ attempts: 1 });
+      // The pool is whole again: a clean run after the fault.
+      expect(on.stats()).toEqual({ threads: 2, busy: 0 });
+      expect(sameBits((await rank(g, params, { pool: on })).scores, clean.scores)).toBe(true);
     });
   }
 

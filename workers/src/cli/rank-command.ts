@@ -3,8 +3,8 @@
 import { availableParallelism } from "node:os";
 import { extname } from "node:path";
 import type { Graph, NodeIds } from "../core/graph";
-import { rank, RankPool, type RankResult } from "../engine/rank";
-import { preloadRankPool } from "../engine/rank-pool";
+import { rank, RankPool, type RankResult, type ShardPool } from "../engine/rank";
+import { LanePool } from "../engine/lane-pool";
 import { writeGraphStore } from "../graph-store/write";
 import { ingestEdgeFile, type IngestResult } from "../ingest/ingest";
 import { rankOrderBytes, rankOrderIn, topK } from "../output/rank-order";
@@ -77,20 +77,18 @@ export async function rankCommand(file: string, o: RankCommandOptions): Promise<
   const format = o.out ? scoreFormat(o.out) : null;
   const threads = o.threads ?? availableParallelism();
   const seedList = o.seeds ? await readSeeds(o.seeds) : null;
-  // The iteration's threads start once the parse lanes are done with the cores, and get ready while this thread
-  // finishes the graph.
-  let pool: RankPool | null = null;
-  const startPool = () => (pool ??= new RankPool({ threads }));
+  let pool: ShardPool | null = null;
+  const usePool = (p: ShardPool) => (pool = p);
   try {
-    return await rankWith(startPool, file, o, t0, format, threads, seedList);
+    return await rankWith(usePool, file, o, t0, format, threads, seedList);
   } finally {
     // The command exits right after its report: the threads need not be torn down first.
-    (pool as RankPool | null)?.close().catch(() => {});
+    (pool as ShardPool | null)?.close().catch(() => {});
   }
 }
 
 async function rankWith(
-  startPool: () => RankPool,
+  usePool: (pool: ShardPool) => ShardPool,
   file: string,
   o: RankCommandOptions,
   t0: number,
@@ -115,18 +113,16 @@ async function rankWith(
         limits: { threads },
         // Every run here weighs an edge by its merged multiplicity, so repeated sources serve as well as weights.
         duplicateLayout: "repeats",
-        onProgress: (p) => {
-          // The build starts with a pass on the parse threads: time for this one to load the pool's package.
-          if (p.phase === "build") preloadRankPool();
-          parseBar.update(p.bytesRead, p.totalBytes, p.phase === "parse" ? `${p.rows} lines` : "building");
-        },
-        onThreadsDone: startPool,
+        onProgress: (p) => parseBar.update(p.bytesRead, p.totalBytes, p.phase === "parse" ? `${p.rows} lines` : "building"),
+        // The run steps on the threads that parsed the file: no second set of threads to start while the cores are
+        // busy. A file too small for parse threads gets a thread pool of its own.
+        keepThreads: true,
       },
     );
   } finally {
     parseBar.stop();
   }
-  const pool = startPool();
+  const pool = usePool(ingested.threads ? new LanePool(ingested.threads) : new RankPool({ threads }));
   const { graph, stats } = ingested;
   if (o.saveGraph) {
     await writeGraphStore(o.saveGraph, graph, { options: ingested.options, stats, fingerprint: stats.fingerprint });

@@ -10,25 +10,24 @@ import { bundledWorker } from "../tasks/ts-worker";
 const EXT = import.meta.url.endsWith(".ts") ? ".ts" : ".js";
 const TASK_FILE = new URL(`../tasks/rank-shard${EXT}`, import.meta.url).href;
 
-// The thread-pool package takes tens of milliseconds to load: a command line loads it while it waits on other threads
-// (preloadRankPool), and the first pool otherwise loads it on the spot.
+// The thread-pool package takes tens of milliseconds to load: it loads with the first pool.
 let PoolClass: typeof Piscina | null = null;
-
-/** Starts loading the thread-pool package in the background (optional: RankPool loads it when still needed). */
-export function preloadRankPool(): void {
-  if (PoolClass) return;
-  import("piscina").then(
-    (m) => void (PoolClass ??= m.Piscina),
-    () => {},
-  );
-}
 
 function poolClass(): typeof Piscina {
   PoolClass ??= (createRequire(import.meta.url)("piscina") as typeof import("piscina")).Piscina;
   return PoolClass;
 }
 
-export class RankPool implements CsvRowPool {
+/** Threads that run shard steps (and CSV rows): a RankPool, or the threads an ingest handed over (LanePool). */
+export interface ShardPool extends CsvRowPool {
+  readonly threads: number;
+  /** One shard step; an abort of `signal` gives up on the attempt (its thread is replaced, not waited for). */
+  run(task: ShardTask, signal: AbortSignal): Promise<ShardDone>;
+  stats(): { threads: number; busy: number };
+  close(): Promise<void>;
+}
+
+export class RankPool implements ShardPool {
   readonly threads: number;
   #pool: Piscina<ShardTask, ShardDone>;
   #busy = 0;

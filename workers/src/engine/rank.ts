@@ -4,11 +4,11 @@ import type { Graph } from "../core/graph";
 import { combineBlocks } from "../core/pull-step-csr";
 import { countMergedEdges, mergedEdgesFromPrefix, planShards } from "../core/shard-plan";
 import { stepScalars } from "../core/teleport";
-import { RankPool } from "./rank-pool";
+import { RankPool, type ShardPool } from "./rank-pool";
 import { prepareRunState, type RunState } from "./run-state";
 import { DEFAULT_RETRY, runShard, type FaultPlan, type RetryPolicy, type ShardState } from "./shard-attempts";
 
-export { RankPool } from "./rank-pool";
+export { RankPool, type ShardPool } from "./rank-pool";
 export type { FaultPlan, RetryPolicy, ShardState } from "./shard-attempts";
 
 export interface RankParams {
@@ -96,12 +96,12 @@ function checkParams(p: RankParams, hooks: RankHooks): void {
  * tolerance or k = maxIterations. Bit-identical for any thread count, shard count and scheduling.
  * @example const r = await rank(graph, { damping: 0.85, tolerance: 1e-9, maxIterations: 200, dangling: "teleport", teleport: { kind: "uniform" }, weighted: false })
  */
-export async function rank(graph: Graph, params: RankParams, opts: { pool?: RankPool } & RankHooks = {}): Promise<RankResult> {
+export async function rank(graph: Graph, params: RankParams, opts: { pool?: ShardPool } & RankHooks = {}): Promise<RankResult> {
   const t0 = performance.now();
   checkParams(params, opts);
   if (graph.n === 0) throw new RangeError("graph.n must be ≥ 1. Value: 0");
   const ownPool = opts.pool ? null : new RankPool({ threads: params.threads ?? availableParallelism() });
-  const pool = opts.pool ?? (ownPool as RankPool);
+  const pool: ShardPool = opts.pool ?? (ownPool as RankPool);
   try {
     return await iterate(graph, params, opts, pool, t0);
   } finally {
@@ -109,7 +109,7 @@ export async function rank(graph: Graph, params: RankParams, opts: { pool?: Rank
   }
 }
 
-async function iterate(graph: Graph, params: RankParams, hooks: RankHooks, pool: RankPool, t0: number): Promise<RankResult> {
+async function iterate(graph: Graph, params: RankParams, hooks: RankHooks, pool: ShardPool, t0: number): Promise<RankResult> {
   const seeds = params.teleport.kind === "seeds" ? params.teleport.seeds : null;
   const s = prepareRunState(graph, {
     kernel: hooks.kernel ?? "auto",
@@ -124,7 +124,7 @@ async function iterate(graph: Graph, params: RankParams, hooks: RankHooks, pool:
   return result;
 }
 
-async function steps(s: RunState, params: RankParams, hooks: RankHooks, pool: RankPool, t0: number): Promise<RankResult> {
+async function steps(s: RunState, params: RankParams, hooks: RankHooks, pool: ShardPool, t0: number): Promise<RankResult> {
   const runId = `${process.pid}-${++runCounter}`;
   const balanced = planShards(s.views.inOffsets, s.n, params.shards ?? pool.threads, s.blockNodes);
   // Balanced on the arcs the kernel reads; reported as the graph's edges.

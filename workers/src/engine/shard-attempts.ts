@@ -1,7 +1,7 @@
 // Runs one shard step on the pool with a deadline, bounded retries and backoff.
 import { setTimeout as sleep } from "node:timers/promises";
 import type { FaultKind, ShardTask } from "../tasks/rank-shard-task";
-import type { RankPool } from "./rank-pool";
+import type { ShardPool } from "./rank-pool";
 
 export interface ShardState {
   index: number;
@@ -66,7 +66,7 @@ function armDeadline(ac: AbortController, started: Int32Array, shard: number, at
  * task is a pure function of its inputs: a retry, or a terminated attempt that still writes, writes the same bits.
  */
 export async function runShard(
-  pool: RankPool,
+  pool: ShardPool,
   task: Omit<ShardTask, "fault" | "shard" | "attempt">,
   st: ShardState,
   iteration: number,

@@ -38,6 +38,8 @@ export interface IngestRun {
   bucketBytes?: number;
   /** Called once the worker threads are done (the rest of the ingest runs on the calling thread). */
   onThreadsDone?: () => void;
+  /** Hand the parse threads to the caller (IngestResult.threads) instead of stopping them, e.g. for a LanePool. */
+  keepThreads?: boolean;
   onProgress?: (p: IngestProgress) => void;
   /** Number ids through hash tables even when a direct table would do (tests compare both paths). */
   hashIds?: boolean;
@@ -53,6 +55,8 @@ export interface IngestResult {
   options: GraphOptions;
   /** Wall times; parseBusyMs adds up the time parse lanes spent parsing (CPU time, across threads). */
   timings: { parseMs: number; parseBusyMs: number; numberMs: number; buildMs: number; totalMs: number };
+  /** With run.keepThreads, the worker threads that parsed the file (none for a small file): the caller closes them. */
+  threads?: Lane[];
 }
 
 // Chunks queued per worker: enough that a busy calling thread (reading, hashing) does not leave workers idle.
@@ -68,6 +72,8 @@ export async function ingestEdgeFile(path: string, options: Partial<GraphOptions
   const workerCount = threads < 2 || textBytes < limits.parallelMinBytes ? 0 : threads;
   // Worker threads start now; until one is up, chunks are parsed here (lane index workerCount).
   const lanes: Lane[] = Array.from({ length: workerCount }, () => new WorkerLane());
+  // Lanes from the front that the caller keeps (run.keepThreads): not stopped here.
+  let kept = 0;
   lanes.push(new LocalLane());
   try {
     const first = await reader.next();
@@ -216,7 +222,7 @@ export async function ingestEdgeFile(path: string, options: Partial<GraphOptions
       order: report.order,
       warnings,
     };
-    return {
+    const result: IngestResult = {
       graph,
       stats,
       badLines,
@@ -229,9 +235,14 @@ export async function ingestEdgeFile(path: string, options: Partial<GraphOptions
         totalMs: tBuilt - t0,
       },
     };
+    if (run.keepThreads && workerCount > 0) {
+      result.threads = lanes.slice(0, workerCount);
+      kept = workerCount;
+    }
+    return result;
   } finally {
     // Threads stop in the background (tearing one down takes tens of milliseconds that the caller need not wait for).
-    for (const lane of lanes) lane.close().catch(() => {});
+    for (const lane of lanes.slice(kept)) lane.close().catch(() => {});
     await reader.close();
   }
 }

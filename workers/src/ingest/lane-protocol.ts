@@ -2,6 +2,8 @@
 // to apply a chunk to a LineParser (so a local lane and a worker lane behave identically).
 
 import type { PassTask } from "../graph-store/build";
+import type { CsvRowsTask } from "../output/csv-rows";
+import type { ShardDone, ShardTask } from "../tasks/rank-shard-task";
 import type { IdMode, LineParser, ParsedPart, ParserConfig } from "./line-parser";
 
 export interface ChunkAck {
@@ -23,13 +25,16 @@ export type LaneRequest =
   | { type: "init"; cfg: ParserConfig }
   | { type: "chunk"; seq: number; buffer: ArrayBuffer; len: number; first: boolean }
   | { type: "finish"; mode: IdMode }
-  | { type: "pass"; pass: PassTask };
+  | { type: "pass"; pass: PassTask }
+  | { type: "shard"; task: ShardTask }
+  | { type: "rows"; task: CsvRowsTask };
 
 export type LaneReply =
   | { type: "ready" }
   | { type: "ack"; ack: ChunkAck }
   | { type: "part"; part: ParsedPart }
   | { type: "passed"; result: number }
+  | { type: "shardDone"; done: ShardDone }
   | { type: "error"; message: string };
 
 /** Apply one chunk to a parser and describe what it did. */

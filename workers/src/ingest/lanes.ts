@@ -4,6 +4,9 @@
 
 import type { Worker } from "node:worker_threads";
 import { runPass, type PassTask } from "../graph-store/build";
+import type { CsvRowsTask } from "../output/csv-rows";
+import rankShard, { formatCsvRows } from "../tasks/rank-shard";
+import type { ShardDone, ShardTask } from "../tasks/rank-shard-task";
 import { parseChunk, type ChunkAck, type LaneReply, type LaneRequest } from "./lane-protocol";
 import { LineParser, type IdMode, type ParsedPart, type ParserConfig } from "./line-parser";
 import type { Chunk } from "./source";
@@ -16,17 +19,24 @@ export interface Lane {
   inflight: number;
   /** Able to take chunks without delay (a worker lane once its thread has started). */
   readonly ready: boolean;
+  /** False once the lane's thread has died (every later request fails). */
+  readonly alive: boolean;
   init(cfg: ParserConfig): void;
   send(chunk: Chunk, first: boolean): Promise<ChunkAck>;
   finish(mode: IdMode): Promise<ParsedPart>;
   /** Run one slice of a graph-build pass. */
   runPass(task: PassTask): Promise<number>;
+  /** After the ingest: one shard step of a run (see LanePool). */
+  runShard(task: ShardTask): Promise<ShardDone>;
+  /** After the ingest: CSV score rows; resolves with the bytes written. */
+  formatCsvRows(task: CsvRowsTask): Promise<number>;
   close(): Promise<void>;
 }
 
 export class LocalLane implements Lane {
   inflight = 0;
   readonly ready = true;
+  readonly alive = true;
   private parser: LineParser | null = null;
   init(cfg: ParserConfig): void {
     this.parser = new LineParser(cfg);
@@ -41,6 +51,12 @@ export class LocalLane implements Lane {
   }
   async runPass(task: PassTask): Promise<number> {
     return runPass(task);
+  }
+  async runShard(task: ShardTask): Promise<ShardDone> {
+    return rankShard(task);
+  }
+  async formatCsvRows(task: CsvRowsTask): Promise<number> {
+    return formatCsvRows(task);
   }
   private spent(): LineParser {
     if (!this.parser) throw new Error("lane used before init");
@@ -74,6 +90,10 @@ export class WorkerLane implements Lane {
     });
   }
 
+  get alive(): boolean {
+    return this.failure === null;
+  }
+
   init(cfg: ParserConfig): void {
     this.post({ type: "init", cfg });
   }
@@ -95,6 +115,18 @@ export class WorkerLane implements Lane {
   async runPass(task: PassTask): Promise<number> {
     const reply = await this.request({ type: "pass", pass: task });
     if (reply.type !== "passed") throw new Error("parse worker: expected a pass result");
+    return reply.result;
+  }
+
+  async runShard(task: ShardTask): Promise<ShardDone> {
+    const reply = await this.request({ type: "shard", task });
+    if (reply.type !== "shardDone") throw new Error("parse worker: expected a shard result");
+    return reply.done;
+  }
+
+  async formatCsvRows(task: CsvRowsTask): Promise<number> {
+    const reply = await this.request({ type: "rows", task });
+    if (reply.type !== "passed") throw new Error("parse worker: expected a byte count");
     return reply.result;
   }
 

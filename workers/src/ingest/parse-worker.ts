@@ -1,7 +1,9 @@
-// Worker thread entry of a parse lane (see lanes.ts).
+// Worker thread entry of a parse lane (see lanes.ts); after the ingest, the same thread can run shard steps and CSV
+// rows for a run (see LanePool).
 
 import { parentPort } from "node:worker_threads";
 import { runPass } from "../graph-store/build";
+import rankShard, { formatCsvRows } from "../tasks/rank-shard";
 import { parseChunk, type LaneReply, type LaneRequest } from "./lane-protocol";
 import { LineParser } from "./line-parser";
 
@@ -13,6 +15,14 @@ port.on("message", (msg: LaneRequest) => {
   try {
     if (msg.type === "pass") {
       reply({ type: "passed", result: runPass(msg.pass) });
+      return;
+    }
+    if (msg.type === "shard") {
+      reply({ type: "shardDone", done: rankShard(msg.task) });
+      return;
+    }
+    if (msg.type === "rows") {
+      reply({ type: "passed", result: formatCsvRows(msg.task) });
       return;
     }
     if (msg.type === "init") {
