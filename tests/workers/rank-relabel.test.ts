@@ -2,7 +2,8 @@
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { degreeOrder, relabel } from "../../workers/src/core/relabel";
 import { rank, RankPool } from "../../workers/src/engine/rank";
-import { applyPolicies, PARAMS, randomEdges, toGraph } from "./rank-test-graphs";
+import { hubsFirst } from "../../workers/src/graph-store/build";
+import { applyPolicies, PARAMS, prng, randomEdges, toGraph } from "./rank-test-graphs";
 
 let pool: RankPool;
 beforeAll(() => {
@@ -64,4 +65,22 @@ describe("relabel", () => {
     expect(() => relabel(g, order)).toThrow(/permutation/);
     expect(() => relabel(g, new Uint32Array(3))).toThrow(/order\.length/);
   });
+});
+
+describe("hubs-first numbering of a build", () => {
+  // The counting sort serves degrees up to about 4n; beyond that (many repeated arcs on few nodes) a comparison sort.
+  for (const [name, n, spread] of [
+    ["counting sort", 5000, 40],
+    ["comparison sort (a degree far above n)", 50, 100_000],
+  ] as const) {
+    it(`${name}: out-degree descending, ties by canonical id, and the degrees in final order`, () => {
+      const rnd = prng(n);
+      const out = Uint32Array.from({ length: n }, () => Math.floor(rnd() ** 4 * spread));
+      const { perm, outByFinal } = hubsFirst(out);
+      expect([...perm].sort((a, b) => a - b)).toEqual(Array.from({ length: n }, (_, i) => i));
+      for (let c = 0; c < n; c++) expect(outByFinal[perm[c]]).toBe(out[c]);
+      for (let u = 1; u < n; u++) expect(outByFinal[u]).toBeLessThanOrEqual(outByFinal[u - 1]);
+      for (let c = 1; c < n; c++) if (out[c] === out[c - 1]) expect(perm[c]).toBeGreaterThan(perm[c - 1]);
+    });
+  }
 });

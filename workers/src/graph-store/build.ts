@@ -140,10 +140,8 @@ export async function buildGraph(
   policy: BuildPolicy,
   runner: PassRunner = LOCAL_RUNNER,
   reserve: GraphReserve | null = null,
-  /** Called when the runner's threads have done their last pass (the rest runs on this thread). */
-  passesDone: () => void = () => {},
 ): Promise<{ graph: Graph; report: BuildReport; degrees?: NodeDegrees }> {
-  const built = await buildCsr(input, policy, runner, reserve, passesDone);
+  const built = await buildCsr(input, policy, runner, reserve);
   // Every source is a relabelled node id, below n by construction: runs need not scan them again.
   markSourcesChecked(built.graph.sources, built.graph.n);
   return built;
@@ -154,7 +152,6 @@ async function buildCsr(
   policy: BuildPolicy,
   runner: PassRunner,
   reserve: GraphReserve | null,
-  passesDone: () => void,
 ): Promise<{ graph: Graph; report: BuildReport; degrees?: NodeDegrees }> {
   const n = input.n;
   const dropSelf = policy.selfLoops === "drop";
@@ -179,7 +176,7 @@ async function buildCsr(
   const sources = reserve ? reserve.sources : finalU32(arcs);
   const sourcesReady = reserve ? reserve.touched : Promise.resolve();
 
-  const perm = policy.renumber ? hubsFirst(counts.out) : identity(n);
+  const { perm, outByFinal } = policy.renumber ? hubsFirst(counts.out) : { perm: identity(n), outByFinal: Uint32Array.from(counts.out) };
   const inOffsets = finalU32(n + 1);
   for (let c = 0; c < n; c++) inOffsets[perm[c] + 1] = counts.in[c];
   for (let v = 0; v < n; v++) inOffsets[v + 1] += inOffsets[v];
@@ -262,14 +259,10 @@ async function buildCsr(
         },
       })),
     );
-    passesDone();
     const dups = dupsBySlice.reduce((a, b) => a + b, 0);
-    const outDegree = new Uint32Array(n);
-    for (let c = 0; c < n; c++) {
-      const u = perm[c];
-      outWeight[u] = counts.out[c];
-      outDegree[u] = counts.out[c];
-    }
+    // Out-arc counts in final order, read in sequence (not scattered through perm).
+    const outDegree = outByFinal;
+    for (let u = 0; u < n; u++) outWeight[u] = outDegree[u];
     if (dups > 0) for (const slice of dupOut) if (slice !== null) for (let u = 0; u < n; u++) outDegree[u] -= slice[u];
     // Degrees of the graph as the policy defines it: merged duplicates count once. (Out of the borrowed space, which
     // the graph's runs reuse.)
@@ -292,7 +285,7 @@ async function buildCsr(
 
   // Weighted: pass A, sliced by canonical source ranges of about equal arc counts, then pass B.
   const outStart = sharedU32(n + 1);
-  for (let c = 0; c < n; c++) outStart[perm[c] + 1] = counts.out[c];
+  for (let u = 0; u < n; u++) outStart[u + 1] = outByFinal[u];
   for (let u = 0; u < n; u++) outStart[u + 1] += outStart[u];
   const bySrcDst = sharedU32(arcs);
   const bySrcW = sharedF64(arcs);
@@ -350,7 +343,6 @@ async function buildCsr(
       },
     })),
   );
-  passesDone();
   const merged = mergedBySlice.reduce((a, b) => a + b, 0);
   const m = merged > 0 ? compact(n, inOffsets, fillLast, sources, weights) : arcs;
   const graph: Graph = {
@@ -484,22 +476,30 @@ function mergeUnitArcs(n: number, inOffsets: Uint32Array, sources: Uint32Array, 
   return wr;
 }
 
-/** perm[c] = final id: out-arc count descending, then canonical id ascending (stable counting sort). */
-export function hubsFirst(outCount: Uint32Array): Uint32Array {
+/**
+ * perm[c] = final id: out-arc count descending, then canonical id ascending (stable counting sort); and the out-arc
+ * counts in final order (outCount sorted descending), made without a pass through perm.
+ */
+export function hubsFirst(outCount: Uint32Array): { perm: Uint32Array; outByFinal: Uint32Array } {
   const n = outCount.length;
   let maxDeg = 0;
   for (let c = 0; c < n; c++) if (outCount[c] > maxDeg) maxDeg = outCount[c];
   const perm = new Uint32Array(n);
+  const outByFinal = new Uint32Array(n);
   if (maxDeg <= 4 * n + 1024) {
     const start = new Uint32Array(maxDeg + 2);
     for (let c = 0; c < n; c++) start[maxDeg - outCount[c] + 1]++;
     for (let k = 0; k <= maxDeg; k++) start[k + 1] += start[k];
+    for (let k = 0; k <= maxDeg; k++) if (start[k + 1] > start[k]) outByFinal.fill(maxDeg - k, start[k], start[k + 1]);
     for (let c = 0; c < n; c++) perm[c] = start[maxDeg - outCount[c]]++;
-    return perm;
+    return { perm, outByFinal };
   }
   const order = identity(n).sort((a, b) => outCount[b] - outCount[a] || a - b);
-  for (let i = 0; i < n; i++) perm[order[i]] = i;
-  return perm;
+  for (let i = 0; i < n; i++) {
+    perm[order[i]] = i;
+    outByFinal[i] = outCount[order[i]];
+  }
+  return { perm, outByFinal };
 }
 
 function identity(n: number): Uint32Array {

@@ -36,8 +36,6 @@ export interface IngestRun {
   heapMinBytes?: number;
   /** Bytes of in-lists per target bucket of the build (see BuildPolicy). */
   bucketBytes?: number;
-  /** Called once the worker threads are done (the rest of the ingest runs on the calling thread). */
-  onThreadsDone?: () => void;
   /** Hand the parse threads to the caller (IngestResult.threads) instead of stopping them, e.g. for a LanePool. */
   keepThreads?: boolean;
   onProgress?: (p: IngestProgress) => void;
@@ -185,7 +183,7 @@ export async function ingestEdgeFile(path: string, options: Partial<GraphOptions
       degrees: numbering.degrees,
     };
     const tNumbered = performance.now();
-    const { graph, report, degrees: built } = await buildGraph(canonical, buildPolicy, runner, reserve, () => run.onThreadsDone?.());
+    const { graph, report, degrees: built } = await buildGraph(canonical, buildPolicy, runner, reserve);
     const degrees = degreeStats(graph, built);
     const tBuilt = performance.now();
 
