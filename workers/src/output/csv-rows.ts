@@ -99,7 +99,7 @@ interface ScoreTextExports {
  * (about 0.4% of doubles) it declines and String() is asked.
  */
 export class ScoreText {
-  static #instances = new WeakMap<WebAssembly.Module, ScoreText>();
+  static #instance: ScoreText | null = null;
   readonly #x: ScoreTextExports;
   readonly #ids: number;
   readonly #scores: number;
@@ -123,14 +123,13 @@ export class ScoreText {
     this.#values = new Float64Array(buffer, this.#scores, TEXT_ROWS);
   }
 
-  /** One instance per module and thread. */
+  /**
+   * One instance per thread: every module given is a compile of the one file (a module sent to a thread arrives as a
+   * new object with each message, so the first instance serves them all).
+   */
   static of(module: WebAssembly.Module): ScoreText {
-    let t = ScoreText.#instances.get(module);
-    if (!t) {
-      t = new ScoreText(module);
-      ScoreText.#instances.set(module, t);
-    }
-    return t;
+    ScoreText.#instance ??= new ScoreText(module);
+    return ScoreText.#instance;
   }
 
   /** Whether the module spells `value` itself (else put() asks String()). */

@@ -3,7 +3,7 @@ import type { FileHandle } from "node:fs/promises";
 import type { NodeIds } from "../core/graph";
 import { writeAtomic } from "./atomic-file";
 import { assemblyModule } from "../tasks/assembly";
-import { csvIds, CSV_HEADER, formatRows, rowBound, ScoreText, type CsvRowPool } from "./csv-rows";
+import { csvIds, CSV_HEADER, formatRows, rowBound, ScoreText, type CsvIds, type CsvRowPool } from "./csv-rows";
 import { rankOrder } from "./rank-order";
 import { scoreTable } from "./score-table";
 
@@ -15,8 +15,9 @@ const PIECE_BYTES = 4 << 20;
 const utf8 = new TextDecoder("utf-8", { fatal: true });
 
 /**
- * node_id,score,rank rows in rank order, formatted into reused buffers: here, or (string ids) on the pool's threads
- * (pieces in flight while earlier ones are written). String ids are checked to be UTF-8 once, up front.
+ * node_id,score,rank rows in rank order, formatted into reused buffers in pieces: here and, for string ids with a
+ * pool, on its threads as well (one piece here, then one per helper thread, round the pieces), written in order
+ * while later pieces are formatted. String ids are checked to be UTF-8 once, up front.
  */
 async function writeCsv(fh: FileHandle, nodeIds: NodeIds, scores: Float64Array, order: Uint32Array, pool?: CsvRowPool): Promise<void> {
   if (nodeIds.kind === "string") checkUtf8(nodeIds.offsets, nodeIds.bytes);
@@ -25,51 +26,67 @@ async function writeCsv(fh: FileHandle, nodeIds: NodeIds, scores: Float64Array, 
   const pieceRows = Math.max(1, Math.min(PIECE_ROWS, Math.floor(PIECE_BYTES / bound)));
   await writeAll(fh, new TextEncoder().encode(CSV_HEADER));
   const n = order.length;
+  const pieces = Math.ceil(n / pieceRows);
   const textModule = assemblyModule("score-text");
-  // Integer-id rows take the module about 0.1 µs each: this thread keeps up with the disk, and handing pieces to
-  // other threads costs more than it saves. String ids are spelled in JavaScript, so they go to the pool.
-  if (!pool || n < 2 * pieceRows || ids.kind === "integer") {
-    // Two buffers: one piece is formatted while the one before it is being written.
-    const rows = Math.min(n, pieceRows);
-    const buffers = [new Uint8Array(rows * bound), new Uint8Array(n > rows ? rows * bound : 0)];
-    const text = ScoreText.of(textModule);
-    let writing: Promise<void> = Promise.resolve();
-    for (let from = 0, k = 0; from < n; from += pieceRows, k ^= 1) {
-      const to = Math.min(n, from + pieceRows);
-      const out = buffers[k];
-      const bytes = formatRows(ids, scores, order, from, to, out, text);
+  const text = ScoreText.of(textModule);
+  // This thread formats too (and issues the writes): the pool lends all its threads but one. Integer-id rows take
+  // the score-text module about 0.15 µs each here, and at that pace helpers slowed the whole (scale 20: 145-180 ms
+  // with one helper against 90 ms alone; the rows' random reads of scores and ids compete), so they stay here.
+  const helpers = pool && pieces >= 2 && ids.kind === "string" ? Math.max(1, pool.threads - 1) : 0;
+  const mine = (k: number) => helpers === 0 || k % (helpers + 1) === 0;
+  const rowsOf = (k: number): [number, number] => [k * pieceRows, Math.min(n, (k + 1) * pieceRows)];
+  const task = pool && helpers > 0 ? { ids: sharedIds(ids), scores: sharedCopy(scores), order: sharedCopy(order), textModule } : null;
+  // Two buffers for this thread's pieces: one is being written while the next is formatted.
+  const own = [new Uint8Array(Math.min(n, pieceRows) * bound), new Uint8Array(pieces > 1 ? pieceRows * bound : 0)];
+  let ownNext = 0;
+  // Shared buffers of the helpers' pieces, each reused once its rows are on disk.
+  const spare: SharedArrayBuffer[] = [];
+  const launched = new Map<number, { out: SharedArrayBuffer; bytes: Promise<number> }>();
+  let ahead = 0;
+  let writing: Promise<void> = Promise.resolve();
+  let written: SharedArrayBuffer | null = null;
+  try {
+    for (let k = 0; k < pieces; k++) {
+      // The helpers' pieces of the next round are in flight.
+      for (; pool && task && ahead < Math.min(pieces, k + helpers + 1); ahead++) {
+        if (mine(ahead)) continue;
+        const [from, to] = rowsOf(ahead);
+        const out = spare.pop() ?? new SharedArrayBuffer(pieceRows * bound);
+        launched.set(ahead, { out, bytes: pool.formatCsvRows({ ...task, from, to, out }) });
+      }
+      let bytes: Uint8Array;
+      let shared: SharedArrayBuffer | null = null;
+      if (mine(k)) {
+        const out = own[ownNext];
+        ownNext ^= 1;
+        const [from, to] = rowsOf(k);
+        bytes = out.subarray(0, formatRows(ids, scores, order, from, to, out, text));
+      } else {
+        const piece = launched.get(k) as { out: SharedArrayBuffer; bytes: Promise<number> };
+        launched.delete(k);
+        shared = piece.out;
+        bytes = new Uint8Array(piece.out, 0, await piece.bytes);
+      }
       await writing;
-      writing = writeAll(fh, out.subarray(0, bytes));
+      if (written) spare.push(written);
+      written = shared;
+      writing = writeAll(fh, bytes);
+      // Awaited at the next piece; until then a failure must not count as unhandled.
+      writing.catch(() => {});
     }
     await writing;
-    return;
-  }
-  const task = { ids: { kind: "string" as const, bytes: sharedCopy(ids.bytes), offsets: sharedCopy(ids.offsets) }, scores: sharedCopy(scores), order: sharedCopy(order), textModule };
-  // A ring of shared output buffers, each reused once its rows are on disk.
-  const spare: SharedArrayBuffer[] = [];
-  const inFlight: Array<{ out: SharedArrayBuffer; bytes: Promise<number> }> = [];
-  let next = 0;
-  const launch = () => {
-    const from = next * pieceRows;
-    const to = Math.min(n, from + pieceRows);
-    next++;
-    const out = spare.pop() ?? new SharedArrayBuffer(pieceRows * bound);
-    inFlight.push({ out, bytes: pool.formatCsvRows({ ...task, from, to, out }) });
-  };
-  const pieces = Math.ceil(n / pieceRows);
-  while (next < pieces && inFlight.length < 2 * pool.threads) launch();
-  try {
-    while (inFlight.length > 0) {
-      const { out, bytes } = inFlight.shift() as (typeof inFlight)[number];
-      await writeAll(fh, new Uint8Array(out, 0, await bytes));
-      spare.push(out);
-      if (next < pieces) launch();
-    }
   } catch (error) {
     // Threads may still be reading the order and ids (perhaps borrowed memory the caller gives back next): wait.
-    await Promise.allSettled(inFlight.map((piece) => piece.bytes));
+    await Promise.allSettled([writing, ...[...launched.values()].map((piece) => piece.bytes)]);
     throw error;
   }
+}
+
+/** The ids in shared memory, for the pool's threads. */
+function sharedIds(ids: CsvIds): CsvIds {
+  return ids.kind === "integer"
+    ? { kind: "integer", words: sharedCopy(ids.words) }
+    : { kind: "string", bytes: sharedCopy(ids.bytes), offsets: sharedCopy(ids.offsets) };
 }
 
 /** Writes every byte (a write may take fewer than asked, e.g. near a full disk: then it says so or throws). */
