@@ -5,6 +5,7 @@ import type { Graph } from "../../workers/src/core/graph";
 import { ingestEdgeFile, type IngestResult } from "../../workers/src/ingest/ingest";
 import { isShared } from "../../workers/src/graph-store/shared";
 import { nodeIds, TempFiles } from "../fixtures/edges/edge-files";
+import { prng } from "./rank-test-graphs";
 
 const files = new TempFiles();
 afterAll(() => files.remove());
@@ -73,6 +74,22 @@ describe("parallel parse", () => {
     if (opts?.bad) {
       expect(one.badLines.length).toBeGreaterThan(10);
       expect(one.badLines[0]).toMatchObject({ line: 9, reason: "wrong-column-count" });
+    }
+  });
+
+  it("matches for dense integer ids counted on several threads (count tables reused by the numbering and build)", async () => {
+    // Ids 0..19,999 on 600,000 lines (7 MB): every parse thread gets chunks, so the direct numbering counts in one
+    // table per thread and writes the degrees and the id map over those tables. Self-loops kept and dropped.
+    const rnd = prng(31);
+    const lines = Array.from({ length: 600_000 }, () => `${Math.floor(rnd() ** 2 * 20_000)} ${Math.floor(rnd() * 20_000)}`);
+    for (let i = 0; i < lines.length; i += 50) lines[i] = `${i % 20_000} ${i % 20_000}`;
+    const path = files.write(`${lines.join("\n")}\n`);
+    for (const selfLoops of ["keep", "drop"] as const) {
+      const one = await ingestEdgeFile(path, { selfLoops }, { limits: { chunkBytes: 64 * 1024, parallelMinBytes: 0, threads: 1 } });
+      const two = await ingestEdgeFile(path, { selfLoops }, { limits: { chunkBytes: 64 * 1024, parallelMinBytes: 0, threads: 2 } });
+      expect(two.stats.idPath).toBe("direct");
+      sameGraph(one.graph, two.graph);
+      sameStats(one, two);
     }
   });
 

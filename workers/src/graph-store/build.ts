@@ -176,7 +176,13 @@ async function buildCsr(
   const sources = reserve ? reserve.sources : finalU32(arcs);
   const sourcesReady = reserve ? reserve.touched : Promise.resolve();
 
-  const { perm, outByFinal } = policy.renumber ? hubsFirst(counts.out) : { perm: identity(n), outByFinal: Uint32Array.from(counts.out) };
+  // Arrays whose every slot is written go over the numbering's spare tables while they last (pages in memory already).
+  const spare = [...(input.spare ?? [])];
+  const room = (length: number): Uint32Array => {
+    const k = spare.findIndex((t) => t.length >= length);
+    return k >= 0 ? spare.splice(k, 1)[0].subarray(0, length) : sharedU32(length);
+  };
+  const { perm, outByFinal } = policy.renumber ? hubsFirst(counts.out, room) : { perm: identity(n), outByFinal: Uint32Array.from(counts.out) };
   const inOffsets = finalU32(n + 1);
   for (let c = 0; c < n; c++) inOffsets[perm[c] + 1] = counts.in[c];
   for (let v = 0; v < n; v++) inOffsets[v + 1] += inOffsets[v];
@@ -193,7 +199,7 @@ async function buildCsr(
   const relabel = pieces.map((seg, k) => {
     let f = fmaps.get(seg.map);
     if (!f) {
-      const fmap = compose(perm, seg.map);
+      const fmap = compose(perm, seg.map, room(seg.map.length));
       f = { fmap, ...(bucketOfFinal ? { bucket: composeBytes(bucketOfFinal, fmap) } : {}) };
       fmaps.set(seg.map, f);
     }
@@ -480,12 +486,16 @@ function mergeUnitArcs(n: number, inOffsets: Uint32Array, sources: Uint32Array, 
  * perm[c] = final id: out-arc count descending, then canonical id ascending (stable counting sort); and the out-arc
  * counts in final order (outCount sorted descending), made without a pass through perm.
  */
-export function hubsFirst(outCount: Uint32Array): { perm: Uint32Array; outByFinal: Uint32Array } {
+export function hubsFirst(
+  outCount: Uint32Array,
+  room: (length: number) => Uint32Array = (length) => new Uint32Array(length),
+): { perm: Uint32Array; outByFinal: Uint32Array } {
   const n = outCount.length;
   let maxDeg = 0;
   for (let c = 0; c < n; c++) if (outCount[c] > maxDeg) maxDeg = outCount[c];
-  const perm = new Uint32Array(n);
-  const outByFinal = new Uint32Array(n);
+  // Every slot of both is written.
+  const perm = room(n);
+  const outByFinal = room(n);
   if (maxDeg <= 4 * n + 1024) {
     const start = new Uint32Array(maxDeg + 2);
     for (let c = 0; c < n; c++) start[maxDeg - outCount[c] + 1]++;
@@ -508,8 +518,7 @@ function identity(n: number): Uint32Array {
   return a;
 }
 
-function compose(outer: Uint32Array, inner: Uint32Array): Uint32Array {
-  const r = sharedU32(inner.length);
+function compose(outer: Uint32Array, inner: Uint32Array, r: Uint32Array = sharedU32(inner.length)): Uint32Array {
   for (let i = 0; i < inner.length; i++) r[i] = outer[inner[i]];
   return r;
 }

@@ -26,6 +26,8 @@ export interface CanonicalEdges {
   segments: EdgeSegment[];
   /** Arc counts by canonical id under the policy, when numbering already counted them. */
   degrees?: ArcCounts | null;
+  /** Shared tables the numbering is done with, already in memory: the build may write over them. */
+  spare?: Uint32Array[];
 }
 
 /** Arcs per node after the self-loop policy and undirected doubling, before duplicates merge. */
@@ -51,6 +53,8 @@ export interface Numbering {
   idPath: "direct" | "hash";
   /** Counted on the way (direct path only). */
   degrees: ArcCounts | null;
+  /** Count tables the numbering is done with (direct path): see CanonicalEdges.spare. */
+  spare?: Uint32Array[];
 }
 
 /** Largest id range numbered with direct tables (12 bytes per possible id value, transient). */
@@ -104,7 +108,7 @@ async function assembleRaw(parts: ParsedPart[], policy: CountPolicy, runner: Pas
   const lanes = runner === LOCAL_RUNNER ? undefined : assemblyModule("lane-passes");
   await runner.run(tables.map((t, k) => ({ kind: "count" as const, task: { edges: bySlice[k], ...t, lanes } })));
   onThreadsFree();
-  // Tables beyond the second fold into it first (more than two count threads); the first two are summed on the way.
+  // Tables beyond
   const [first, second = null] = tables;
   for (const t of tables.slice(2)) {
     const into = second as (typeof tables)[number];
@@ -118,13 +122,15 @@ async function assembleRaw(parts: ParsedPart[], policy: CountPolicy, runner: Pas
   const outRaw2 = second?.outRaw ?? null;
   const inRaw2 = second?.inRaw ?? null;
   const selfRaw2 = second?.selfRaw ?? null;
-  // Room for every value; only the first n slots are written (untouched room costs no memory).
-  const map = sharedU32(maxId + 1);
+  // The loop reads value x's counts and then writes node c ≤ x's degrees and map[x]: so the degrees go over the first
+  // table in place and the map over the second's out-counts (memory already in RAM; fresh pages cost about 3 ms a MB
+  // here). Room for every value; only the first n slots of the others are written (untouched room costs no memory).
+  const map = outRaw2 ?? sharedU32(maxId + 1);
   const idsRoom = new BigUint64Array(maxId + 1);
   // Ids below 2^32 written as the low words of the 64-bit slots (no BigInt per node; the high words stay 0).
   const idWords = new Uint32Array(idsRoom.buffer);
-  const outRoom = new Uint32Array(maxId + 1);
-  const inRoom = new Uint32Array(maxId + 1);
+  const outRoom = outRaw;
+  const inRoom = inRaw;
   const selfPerArc = policy.directed ? (policy.dropSelfLoops ? 1 : 0) : policy.dropSelfLoops ? 2 : 1;
   let arcs = 0;
   let dropped = 0;
@@ -160,6 +166,7 @@ async function assembleRaw(parts: ParsedPart[], policy: CountPolicy, runner: Pas
     maps: parts.map(() => map),
     idPath: "direct",
     degrees: { out, in: inn, arcs, selfLoopsDropped: dropped },
+    spare: [inRaw2, selfRaw, selfRaw2, ...tables.slice(2).flatMap((t) => [t.outRaw, t.inRaw, t.selfRaw])].filter((t): t is Uint32Array => t !== null),
   };
 }
 

@@ -181,6 +181,7 @@ export async function ingestEdgeFile(path: string, options: Partial<GraphOptions
       ids: numbering.ids,
       segments,
       degrees: numbering.degrees,
+      spare: numbering.spare,
     };
     const tNumbered = performance.now();
     const { graph, report, degrees: built } = await buildGraph(canonical, buildPolicy, runner, reserve);
