@@ -3,7 +3,7 @@ import { describe, expect, it } from "vitest";
 import { BLOCK_NODES, fromDenseEdges } from "../../workers/src/core/graph";
 import { BLOCK_SLOTS, combineBlocks } from "../../workers/src/core/pull-step-csr";
 import { checkGraph, contributions, markSourcesChecked, pullStep } from "../../workers/src/core/pull-step";
-import { countMergedEdges, NODE_COST, planShards } from "../../workers/src/core/shard-plan";
+import { countMergedEdges, NODE_COST, planShards, rebalanceShards } from "../../workers/src/core/shard-plan";
 import { outDegree, stepScalars, teleportVector } from "../../workers/src/core/teleport";
 import { prepareRunState } from "../../workers/src/engine/run-state";
 import { applyPolicies, prng, randomEdges, sameBits, toGraph } from "./rank-test-graphs";
@@ -183,6 +183,40 @@ describe("planShards", () => {
     const edges = plan.map((s) => s.edges);
     expect(Math.max(...nodes) / Math.min(...nodes)).toBeGreaterThan(1.1);
     expect(Math.max(...edges) / Math.min(...edges)).toBeGreaterThan(1.5);
+  });
+  it("moves towards equal measured times: the slow range gives blocks to the fast one, on block boundaries", () => {
+    const plan = planShards(g.inOffsets, g.n, 3, BLOCK_NODES);
+    const cost = (r: { start: number; end: number }) => g.inOffsets[r.end] - g.inOffsets[r.start] + NODE_COST * (r.end - r.start);
+    // Range 0 ran twice as slowly per unit of cost as the others.
+    const times = plan.map((r, i) => cost(r) * (i === 0 ? 2 : 1) * 1e-6);
+    const moved = rebalanceShards(g.inOffsets, g.n, plan, times, BLOCK_NODES);
+    expect(moved).not.toBeNull();
+    const next = moved as NonNullable<typeof moved>;
+    expect(next[0].start).toBe(0);
+    expect(next[2].end).toBe(g.n);
+    next.forEach((r, i) => {
+      expect(r.index).toBe(i);
+      expect(r.start % BLOCK_NODES).toBe(0);
+      expect(r.end).toBeGreaterThan(r.start);
+      if (i > 0) expect(r.start).toBe(next[i - 1].end);
+      expect(r.edges).toBe(g.inOffsets[r.end] - g.inOffsets[r.start]);
+    });
+    expect(next[0].end).toBeLessThan(plan[0].end);
+    // Estimated with the measured rates, the new ranges are within a block's time of equal.
+    const rate = (v: number) => (v < plan[0].end ? 2 : 1);
+    const est = next.map((r) => {
+      let t = 0;
+      for (let b = r.start; b < r.end; b += BLOCK_NODES) t += cost({ start: b, end: Math.min(b + BLOCK_NODES, r.end) }) * rate(b);
+      return t;
+    });
+    const mean = est.reduce((a, b) => a + b, 0) / 3;
+    let maxBlock = 0;
+    for (let b = 0; b < g.n; b += BLOCK_NODES) maxBlock = Math.max(maxBlock, 2 * cost({ start: b, end: Math.min(b + BLOCK_NODES, g.n) }));
+    for (const t of est) expect(Math.abs(t - mean)).toBeLessThanOrEqual(maxBlock);
+    // Balanced times, missing times or a single range: no change.
+    expect(rebalanceShards(g.inOffsets, g.n, plan, plan.map((r) => cost(r) * 1e-6), BLOCK_NODES)).toBeNull();
+    expect(rebalanceShards(g.inOffsets, g.n, plan, [1, 0, 1], BLOCK_NODES)).toBeNull();
+    expect(rebalanceShards(g.inOffsets, g.n, plan.slice(0, 1), [1], BLOCK_NODES)).toBeNull();
   });
   it("returns no shard for the empty graph and rejects a bad count", () => {
     expect(planShards(Uint32Array.of(0), 0, 3, BLOCK_NODES)).toEqual([]);

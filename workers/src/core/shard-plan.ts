@@ -60,6 +60,60 @@ export function planShards(inOffsets: Uint32Array, n: number, count: number, blo
 }
 
 /**
+ * The plan moved towards equal step times, from one step's measured time per range: each range's time is spread over
+ * its blocks in proportion to their cost (in-edges + NODE_COST · nodes), and boundary i goes to the block edge where
+ * that estimate reaches i/k of the total (at least one block a range). Null when the times are within `tolerance` of
+ * each other, a time is missing, or the boundaries would not move. Any plan gives the same bits, so a run may change
+ * its plan between steps: the cost model misjudges some graphs (cache behaviour differs between hubs and the rest).
+ */
+export function rebalanceShards(
+  inOffsets: Uint32Array,
+  n: number,
+  plan: readonly ShardRange[],
+  times: readonly number[],
+  blockNodes: number,
+  tolerance = 0.08,
+): ShardRange[] | null {
+  const k = plan.length;
+  if (k < 2 || times.length !== k || !times.every((t) => t > 0)) return null;
+  if (Math.max(...times) <= Math.min(...times) * (1 + tolerance)) return null;
+  const blocks = Math.ceil(n / blockNodes);
+  const node = (j: number) => Math.min(j * blockNodes, n);
+  const cost = (j: number) => inOffsets[node(j)] + NODE_COST * node(j);
+  const first = plan.map((r) => Math.floor(r.start / blockNodes));
+  const last = plan.map((r) => Math.ceil(r.end / blockNodes));
+  const density = plan.map((_, i) => times[i] / Math.max(1, cost(last[i]) - cost(first[i])));
+  // Estimated time of blocks [0, j).
+  const estimate = (j: number) => {
+    let t = 0;
+    for (let i = 0; i < k && first[i] < j; i++) t += density[i] * (cost(Math.min(j, last[i])) - cost(first[i]));
+    return t;
+  };
+  const total = estimate(blocks);
+  const cuts = [0];
+  for (let i = 1; i < k; i++) {
+    const target = (total * i) / k;
+    const minJ = cuts[i - 1] + 1;
+    let lo = minJ;
+    let hi = blocks - (k - i);
+    while (lo < hi) {
+      const mid = (lo + hi) >>> 1;
+      if (estimate(mid) < target) lo = mid + 1;
+      else hi = mid;
+    }
+    if (lo > minJ && target - estimate(lo - 1) < estimate(lo) - target) lo--;
+    cuts.push(lo);
+  }
+  cuts.push(blocks);
+  if (cuts.every((j, i) => i === k || node(j) === plan[i].start)) return null;
+  return plan.map((r, i) => {
+    const start = node(cuts[i]);
+    const end = node(cuts[i + 1]);
+    return { index: r.index, start, end, edges: inOffsets[end] - inOffsets[start] };
+  });
+}
+
+/**
  * The plan with each range's edges counted once per distinct source in an in-list: on a graph that keeps merged
  * duplicates as repeated sources (Graph.mergedEdges), the ranges then add up to the graph's edges.
  */

@@ -2,7 +2,7 @@
 import { availableParallelism } from "node:os";
 import type { Graph } from "../core/graph";
 import { combineBlocks } from "../core/pull-step-csr";
-import { countMergedEdges, mergedEdgesFromPrefix, planShards } from "../core/shard-plan";
+import { countMergedEdges, mergedEdgesFromPrefix, planShards, rebalanceShards, type ShardRange } from "../core/shard-plan";
 import { stepScalars } from "../core/teleport";
 import { RankPool, type ShardPool } from "./rank-pool";
 import { prepareRunState, type RunState } from "./run-state";
@@ -69,6 +69,9 @@ export interface RankResult {
 /** Largest |Σx − 1| tolerated: rounding stays orders of magnitude below; a leak of mass does not. */
 export const MASS_DRIFT_LIMIT = 1e-8;
 
+/** Steps after which the shard plan may move towards equal kernel times (steps 2 to 4). */
+const REBALANCE_STEPS = 4;
+
 let runCounter = 0;
 
 function checkParams(p: RankParams, hooks: RankHooks): void {
@@ -126,13 +129,14 @@ async function iterate(graph: Graph, params: RankParams, hooks: RankHooks, pool:
 
 async function steps(s: RunState, params: RankParams, hooks: RankHooks, pool: ShardPool, t0: number): Promise<RankResult> {
   const runId = `${process.pid}-${++runCounter}`;
-  const balanced = planShards(s.views.inOffsets, s.n, params.shards ?? pool.threads, s.blockNodes);
   // Balanced on the arcs the kernel reads; reported as the graph's edges.
-  const plan = !s.repeats
-    ? balanced
-    : s.distinctInOffsets
-      ? mergedEdgesFromPrefix(balanced, s.distinctInOffsets)
-      : countMergedEdges(balanced, s.views.inOffsets, s.views.sources);
+  const reported = (ranges: ShardRange[]) =>
+    !s.repeats
+      ? ranges
+      : s.distinctInOffsets
+        ? mergedEdgesFromPrefix(ranges, s.distinctInOffsets)
+        : countMergedEdges(ranges, s.views.inOffsets, s.views.sources);
+  const plan = reported(planShards(s.views.inOffsets, s.n, params.shards ?? pool.threads, s.blockNodes));
   const shards: ShardState[] = plan.map((r) => ({ ...r, state: "queued", attempts: 0 }));
   const started = new SharedArrayBuffer(4 * Math.max(1, shards.length));
   const retry = hooks.retry ?? DEFAULT_RETRY;
@@ -206,6 +210,14 @@ async function steps(s: RunState, params: RankParams, hooks: RankHooks, pool: Sh
     if (residual < params.tolerance) {
       stopReason = "converged";
       break;
+    }
+    // The first steps' kernel times correct the plan's cost model (the first step is skipped: it faults pages in).
+    if (k >= 2 && k <= REBALANCE_STEPS && shards.every((st) => st.attempts === 1)) {
+      const ranges = shards.map(({ index, start, end }) => ({ index, start, end, edges: s.views.inOffsets[end] - s.views.inOffsets[start] }));
+      const moved = rebalanceShards(s.views.inOffsets, s.n, ranges, shards.map((st) => st.kernelMs ?? 0), s.blockNodes);
+      if (moved) {
+        for (const r of reported(moved)) Object.assign(shards[r.index], { start: r.start, end: r.end, edges: r.edges });
+      }
     }
   }
   const t2 = performance.now();
