@@ -6,6 +6,7 @@ import { join } from "node:path";
 import { afterAll, describe, expect, it } from "vitest";
 import { countMergedEdges, mergedEdgesFromPrefix, planShards } from "../../workers/src/core/shard-plan";
 import { rank, RankPool } from "../../workers/src/engine/rank";
+import { touchPages } from "../../workers/src/graph-store/build-passes";
 import { loadGraphStore } from "../../workers/src/graph-store/load";
 import { writeGraphStore } from "../../workers/src/graph-store/write";
 import { ingestEdgeFile } from "../../workers/src/ingest/ingest";
@@ -99,6 +100,21 @@ describe("merged duplicates as repeated sources", () => {
 });
 
 describe("the graph's shared heap", () => {
+  it("is faulted in ahead by touches that keep whatever another thread wrote there first (atomic touches)", () => {
+    const buffer = new SharedArrayBuffer(64 * 4096);
+    const words = new Int32Array(buffer);
+    // Values written before the touch, at page starts (where a touch stores) and elsewhere.
+    for (let p = 0; p < 64; p += 3) words[(p * 4096) / 4] = p + 1;
+    words[5000] = -7;
+    const stop = new Int32Array(new SharedArrayBuffer(4));
+    expect(touchPages({ buffer, from: 4096, to: 60 * 4096, parts: 2, stop, atomic: true })).toBe(59 * 4096);
+    for (let p = 0; p < 64; p++) expect(words[(p * 4096) / 4]).toBe(p % 3 === 0 ? p + 1 : 0);
+    expect(words[5000]).toBe(-7);
+    // A stopped touch does nothing.
+    Atomics.store(stop, 0, 1);
+    expect(touchPages({ buffer, from: 0, to: 4096, parts: 1, stop, atomic: true })).toBe(0);
+  });
+
   it("lends its free space to one run at a time; runs after it and beside it give the same bits", async () => {
     const path = files.write(TEXT);
     const onHeap = (await ingestEdgeFile(path, {}, { duplicateLayout: "repeats", heapMinBytes: 0 })).graph;

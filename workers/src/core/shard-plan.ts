@@ -72,7 +72,7 @@ export function rebalanceShards(
   plan: readonly ShardRange[],
   times: readonly number[],
   blockNodes: number,
-  tolerance = 0.08,
+  tolerance = 0.04,
 ): ShardRange[] | null {
   const k = plan.length;
   if (k < 2 || times.length !== k || !times.every((t) => t > 0)) return null;

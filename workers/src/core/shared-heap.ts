@@ -53,6 +53,11 @@ export class SharedHeap {
     return this.memory.buffer as unknown as SharedArrayBuffer;
   }
 
+  /** End of the space written so far (the graph's arrays and every loan's): pages below it are in memory. */
+  get writtenEnd(): number {
+    return Math.max(this.#dirtyEnd, this.#top);
+  }
+
   /** Bytes still free. */
   get free(): number {
     return this.capacity - this.#top;

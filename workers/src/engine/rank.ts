@@ -69,8 +69,8 @@ export interface RankResult {
 /** Largest |Σx − 1| tolerated: rounding stays orders of magnitude below; a leak of mass does not. */
 export const MASS_DRIFT_LIMIT = 1e-8;
 
-/** Steps after which the shard plan may move towards equal kernel times (steps 2 to 4). */
-const REBALANCE_STEPS = 4;
+/** The step after which the shard plan may move towards equal kernel times (measured over steps 2 to 4). */
+const REBALANCE_AFTER = 4;
 
 let runCounter = 0;
 
@@ -138,6 +138,7 @@ async function steps(s: RunState, params: RankParams, hooks: RankHooks, pool: Sh
         : countMergedEdges(ranges, s.views.inOffsets, s.views.sources);
   const plan = reported(planShards(s.views.inOffsets, s.n, params.shards ?? pool.threads, s.blockNodes));
   const shards: ShardState[] = plan.map((r) => ({ ...r, state: "queued", attempts: 0 }));
+  const bestKernelMs = shards.map(() => Infinity);
   const started = new SharedArrayBuffer(4 * Math.max(1, shards.length));
   const retry = hooks.retry ?? DEFAULT_RETRY;
   const faults = hooks.faults ?? [];
@@ -211,12 +212,15 @@ async function steps(s: RunState, params: RankParams, hooks: RankHooks, pool: Sh
       stopReason = "converged";
       break;
     }
-    // The first steps' kernel times correct the plan's cost model (the first step is skipped: it faults pages in).
-    if (k >= 2 && k <= REBALANCE_STEPS && shards.every((st) => st.attempts === 1)) {
-      const ranges = shards.map(({ index, start, end }) => ({ index, start, end, edges: s.views.inOffsets[end] - s.views.inOffsets[start] }));
-      const moved = rebalanceShards(s.views.inOffsets, s.n, ranges, shards.map((st) => st.kernelMs ?? 0), s.blockNodes);
-      if (moved) {
-        for (const r of reported(moved)) Object.assign(shards[r.index], { start: r.start, end: r.end, edges: r.edges });
+    // Kernel times of steps 2 to 4 correct the plan's cost model once (the first step is left out: it faults pages
+    // in and runs code not yet optimised). Each shard's fastest of the three stands for it: one slow step (another
+    // process, a page fault) must not move the boundaries.
+    if (k >= 2 && k <= REBALANCE_AFTER) {
+      shards.forEach((st, i) => (bestKernelMs[i] = Math.min(bestKernelMs[i], st.attempts === 1 ? (st.kernelMs ?? Infinity) : Infinity)));
+      if (k === REBALANCE_AFTER && bestKernelMs.every(Number.isFinite)) {
+        const ranges = shards.map(({ index, start, end }) => ({ index, start, end, edges: s.views.inOffsets[end] - s.views.inOffsets[start] }));
+        const moved = rebalanceShards(s.views.inOffsets, s.n, ranges, bestKernelMs, s.blockNodes);
+        if (moved) for (const r of reported(moved)) Object.assign(shards[r.index], { start: r.start, end: r.end, edges: r.edges });
       }
     }
   }

@@ -546,6 +546,11 @@ export interface PassTouch {
   to: number;
   parts: number;
   stop: Int32Array;
+  /**
+   * Others may write [from, to) meanwhile: each page then gets an atomic compare-exchange of 0 with 0 (it stores only
+   * over a 0, and a page that holds data is in memory already). `from` is then a multiple of 4.
+   */
+  atomic?: boolean;
 }
 
 const TOUCH_STRETCH = 64 << 12;
@@ -553,11 +558,13 @@ const TOUCH_STRETCH = 64 << 12;
 export function touchPages(t: PassTouch): number {
   const bytes = new Uint8Array(t.buffer, t.from, t.to - t.from);
   const part = Math.ceil(bytes.length / Math.max(1, t.parts) / TOUCH_STRETCH) * TOUCH_STRETCH;
+  const words = t.atomic ? new Int32Array(t.buffer) : null;
   let done = 0;
   for (let at = 0; at < part && Atomics.load(t.stop, 0) === 0; at += TOUCH_STRETCH) {
     for (let p = at; p < bytes.length; p += part) {
       const end = Math.min(bytes.length, p + TOUCH_STRETCH);
-      for (let i = p; i < end; i += 4096) bytes[i] = 0;
+      if (words) for (let i = p; i < end; i += 4096) Atomics.compareExchange(words, (t.from + i) >> 2, 0, 0);
+      else for (let i = p; i < end; i += 4096) bytes[i] = 0;
       done += end - p;
     }
   }

@@ -46,6 +46,11 @@ export interface BuildPolicy {
   heapMinBytes?: number;
   /** Bytes of in-lists per target bucket of a directed unweighted build (default 512 KiB; tests make it small). */
   bucketBytes?: number;
+  /**
+   * A run follows on the same threads (a command line): once the build's passes are done, one thread faults in the
+   * heap's run space that the build's scratch did not reach, while this thread finishes the graph.
+   */
+  touchRunSpace?: boolean;
 }
 
 /** In- and out-degree of every node (edges after the policies; merged duplicates once). */
@@ -274,6 +279,7 @@ async function buildCsr(
     // the graph's runs reuse.)
     const degrees = { in: inDistinct ? Uint32Array.from(inDistinct) : lengths(inOffsets), out: outDegree };
     loan?.release();
+    if (heap && policy.touchRunSpace && runner !== LOCAL_RUNNER) touchRunSpace(heap, n, runner);
     const base = { n, inOffsets, outWeight, ids: ids(), ...(heap ? { heap } : {}) };
     if (!merge || dups === 0) {
       return { graph: { ...base, m: arcs, sources, weights: null }, report: reportOf(0), degrees };
@@ -362,6 +368,19 @@ async function buildCsr(
     ...(heap ? { heap } : {}),
   };
   return { graph, report: reportOf(merged) };
+}
+
+/**
+ * Faults in the run space beyond what the build wrote, on one thread, without waiting: the next run's first step would
+ * otherwise fault those pages on both threads (about 10 MB at scale 20). Atomic touches, as the run may start writing
+ * its arrays there meanwhile; a run whose step reaches that thread first waits for the touch to end.
+ */
+function touchRunSpace(heap: SharedHeap, n: number, runner: PassRunner): void {
+  const from = Math.ceil(heap.writtenEnd / 4096) * 4096;
+  const to = Math.min(heap.capacity, heap.capacity - heap.free + runBytes(n));
+  if (to <= from) return;
+  const task = { buffer: heap.buffer, from, to, parts: 1, stop: new Int32Array(new SharedArrayBuffer(4)), atomic: true };
+  runner.run([{ kind: "touch", task }]).catch(() => {});
 }
 
 /**

@@ -161,6 +161,7 @@ export async function ingestEdgeFile(path: string, options: Partial<GraphOptions
       duplicateLayout: run.duplicateLayout,
       heapMinBytes: run.heapMinBytes,
       bucketBytes: run.bucketBytes,
+      touchRunSpace: run.keepThreads,
     };
     let reserve: GraphReserve | null = null;
     const numbering = await numberNodes(parts, { directed: opts.directed, dropSelfLoops: dropSelf }, runner, () => {
