@@ -33,23 +33,7 @@ export function planShards(inOffsets: Uint32Array, n: number, count: number, blo
   const k = Math.min(count, blocks);
   const node = (j: number) => Math.min(j * blockNodes, n);
   const cost = (j: number) => inOffsets[node(j)] + NODE_COST * node(j);
-  const total = cost(blocks);
-  const cuts = [0];
-  for (let i = 1; i < k; i++) {
-    const target = (total * i) / k;
-    const minJ = cuts[i - 1] + 1;
-    const maxJ = blocks - (k - i);
-    let lo = minJ;
-    let hi = maxJ;
-    while (lo < hi) {
-      const mid = (lo + hi) >>> 1;
-      if (cost(mid) < target) lo = mid + 1;
-      else hi = mid;
-    }
-    if (lo > minJ && target - cost(lo - 1) < cost(lo) - target) lo--;
-    cuts.push(lo);
-  }
-  cuts.push(blocks);
+  const cuts = equalCuts(cost, blocks, k);
   const shards: ShardRange[] = [];
   for (let i = 0; i < k; i++) {
     const start = node(cuts[i]);
@@ -89,7 +73,21 @@ export function rebalanceShards(
     for (let i = 0; i < k && first[i] < j; i++) t += density[i] * (cost(Math.min(j, last[i])) - cost(first[i]));
     return t;
   };
-  const total = estimate(blocks);
+  const cuts = equalCuts(estimate, blocks, k);
+  if (cuts.every((j, i) => i === k || node(j) === plan[i].start)) return null;
+  return plan.map((r, i) => {
+    const start = node(cuts[i]);
+    const end = node(cuts[i + 1]);
+    return { index: r.index, start, end, edges: inOffsets[end] - inOffsets[start] };
+  });
+}
+
+/**
+ * Block boundaries 0 = c_0 < c_1 < … < c_k = blocks, c_i the block edge whose prefix (non-decreasing, prefix(0) = 0)
+ * is nearest to i/k of prefix(blocks), keeping at least one block per range.
+ */
+function equalCuts(prefix: (j: number) => number, blocks: number, k: number): number[] {
+  const total = prefix(blocks);
   const cuts = [0];
   for (let i = 1; i < k; i++) {
     const target = (total * i) / k;
@@ -98,19 +96,14 @@ export function rebalanceShards(
     let hi = blocks - (k - i);
     while (lo < hi) {
       const mid = (lo + hi) >>> 1;
-      if (estimate(mid) < target) lo = mid + 1;
+      if (prefix(mid) < target) lo = mid + 1;
       else hi = mid;
     }
-    if (lo > minJ && target - estimate(lo - 1) < estimate(lo) - target) lo--;
+    if (lo > minJ && target - prefix(lo - 1) < prefix(lo) - target) lo--;
     cuts.push(lo);
   }
   cuts.push(blocks);
-  if (cuts.every((j, i) => i === k || node(j) === plan[i].start)) return null;
-  return plan.map((r, i) => {
-    const start = node(cuts[i]);
-    const end = node(cuts[i + 1]);
-    return { index: r.index, start, end, edges: inOffsets[end] - inOffsets[start] };
-  });
+  return cuts;
 }
 
 /**
