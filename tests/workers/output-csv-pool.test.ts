@@ -1,13 +1,14 @@
 // CSV score files written with a thread pool at hand are the same bytes as those written without one (string ids go
 // to the pool's threads; integer ids stay on the calling thread, in the score-text module, either way).
-import { mkdtemp, readFile, rm } from "node:fs/promises";
+import { mkdtemp, readdir, readFile, rm } from "node:fs/promises";
 import { tmpdir } from "node:os";
 import { join } from "node:path";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import type { NodeIds } from "../../workers/src/core/graph";
 import { RankPool } from "../../workers/src/engine/rank";
+import type { CsvRowPool } from "../../workers/src/output/csv-rows";
 import { writeScores } from "../../workers/src/output/write-scores";
-import { prng } from "./rank-test-graphs";
+import { prng, stringIds } from "./rank-test-graphs";
 
 let dir: string;
 const pool = new RankPool({ threads: 2 });
@@ -52,14 +53,8 @@ describe("CSV rows on pool threads", () => {
   });
 
   it("match for string ids that need quoting", async () => {
-    const names = Array.from({ length: N }, (_, i) => (i % 11 === 0 ? `page "${i}", kestrel` : `isle-${i}-ø`));
-    const enc = new TextEncoder();
-    const parts = names.map((n) => enc.encode(n));
-    const offsets = new Uint32Array(N + 1);
-    parts.forEach((p, i) => (offsets[i + 1] = offsets[i] + p.length));
-    const bytes = new Uint8Array(offsets[N]);
-    parts.forEach((p, i) => bytes.set(p, offsets[i]));
-    const [here, threads] = await both({ kind: "string", bytes, offsets }, scores(2));
+    const ids = stringIds(Array.from({ length: N }, (_, i) => (i % 11 === 0 ? `page "${i}", kestrel` : `isle-${i}-ø`)));
+    const [here, threads] = await both(ids, scores(2));
     expect(threads).toBe(here);
     expect(here).toContain('"page ""0"", kestrel",');
   });
@@ -83,6 +78,26 @@ describe("CSV rows on pool threads", () => {
       checked++;
     }
     expect(checked).toBe(N);
+  });
+
+  it("fails whole when a thread's piece fails, while this thread is busy with its own: nothing half-written", async () => {
+    // Pieces in flight fail while earlier ones are still being formatted and written here.
+    const calls: number[] = [];
+    const failing: CsvRowPool = {
+      threads: 3,
+      formatCsvRows: async (task) => {
+        calls.push(task.from);
+        // The first piece sent out takes a while; the next fails at once, long before its turn comes.
+        if (calls.length === 1) await new Promise((r) => setTimeout(r, 30));
+        throw new Error("a row thread stopped");
+      },
+    };
+    const path = join(dir, "failing.csv");
+    const ids = stringIds(Array.from({ length: N }, (_, i) => `skerry-${i}`));
+    await expect(writeScores(path, "csv", ids, scores(5), {}, { rowPool: failing })).rejects.toThrow("a row thread stopped");
+    expect(calls.length).toBeGreaterThanOrEqual(2);
+    await expect(readFile(path)).rejects.toThrow();
+    expect((await readdir(dir)).filter((f) => f.includes("failing"))).toEqual([]);
   });
 
   it("refuses string ids that are not UTF-8, naming nothing half-written", async () => {

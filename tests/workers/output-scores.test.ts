@@ -10,7 +10,7 @@ import { SharedHeap } from "../../workers/src/core/shared-heap";
 import { assemblyModule } from "../../workers/src/tasks/assembly";
 import { certainTop, rankOrder, rankOrderIn, ranks, topK } from "../../workers/src/output/rank-order";
 import { writeScores } from "../../workers/src/output/write-scores";
-import { prng, sameBits } from "./rank-test-graphs";
+import { prng, sameBits, stringIds } from "./rank-test-graphs";
 
 let dir: string;
 beforeAll(async () => {
@@ -78,16 +78,6 @@ const META = { damping: "0.85", weighted: "false", iterations: "12", residual: "
 
 function integerIds(n: number): NodeIds {
   return { kind: "integer", ids: BigUint64Array.from({ length: n }, (_, i) => (i === 0 ? 18_446_744_073_709_551_615n : BigInt(i) * 1_000_003n)) };
-}
-
-function stringIds(names: string[]): NodeIds {
-  const enc = new TextEncoder();
-  const parts = names.map((s) => enc.encode(s));
-  const offsets = new Uint32Array(names.length + 1);
-  parts.forEach((p, i) => (offsets[i + 1] = offsets[i] + p.length));
-  const bytes = new Uint8Array(offsets[names.length]);
-  parts.forEach((p, i) => bytes.set(p, offsets[i]));
-  return { kind: "string", bytes, offsets };
 }
 
 function parseCsv(text: string): string[][] {

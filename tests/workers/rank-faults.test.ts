@@ -49,11 +49,28 @@ describe("retries", () => {
       expect(st).toMatchObject({ state: "done", attempts: f.attempt + 1 });
       expect(st?.lastError).toBeTruthy();
       expect(seen.find((p) => p.k === f.iteration + 1)?.shards[f.shard]).toMatchObject({ attempts: 1 });
+      // Three shards on two threads: a thread's fault costs no other shard an attempt (none waits on a dying thread).
+      const others = (seen.find((p) => p.k === f.iteration)?.shards ?? []).filter((_, j) => !faults.some((x) => x.shard === j && x.iteration === f.iteration));
+      expect(others).toHaveLength(2);
+      for (const other of others) expect(other.attempts).toBe(1);
       // The pool is whole again: a clean run after the fault.
       expect(on.stats()).toEqual({ threads: 2, busy: 0 });
       expect(sameBits((await rank(g, params, { pool: on })).scores, clean.scores)).toBe(true);
     });
   }
+
+  it("a lane pool replaces a thread that stopped while idle instead of waiting on it", { timeout: 20_000 }, async () => {
+    const idle = new WorkerLane();
+    await idle.close();
+    expect(idle.alive).toBe(false);
+    const lanes = new LanePool([idle, new WorkerLane()]);
+    try {
+      const r = await rank(g, params, { pool: lanes, retry: { ...retry, taskTimeoutMs: 60_000 } });
+      expect(sameBits(r.scores, clean.scores)).toBe(true);
+    } finally {
+      await lanes.close();
+    }
+  });
 
   it("past the attempt limit the run needs attention and keeps the last good iterate", { timeout: 120_000 }, async () => {
     const faults: FaultPlan[] = [1, 2, 3].map((attempt) => ({ shard: 1, iteration: 4, attempt, kind: "throw" }));

@@ -1,5 +1,5 @@
 // Graph builders shared by the engine tests: seeded random edge lists and the edge policies applied by ingest.
-import { fromDenseEdges, type Graph } from "../../workers/src/core/graph";
+import { fromDenseEdges, type Graph, type NodeIds } from "../../workers/src/core/graph";
 import type { RankParams } from "../../workers/src/engine/rank";
 
 import { mulberry32 as prng } from "../../workers/src/core/prng";
@@ -109,4 +109,15 @@ export function l1(a: Float64Array, b: Float64Array): number {
 
 export function sameBits(a: Float64Array, b: Float64Array): boolean {
   return Buffer.compare(Buffer.from(a.buffer, a.byteOffset, a.byteLength), Buffer.from(b.buffer, b.byteOffset, b.byteLength)) === 0;
+}
+
+/** String ids as the engine keeps them: UTF-8 bytes and offsets. */
+export function stringIds(names: readonly string[]): NodeIds & { kind: "string" } {
+  const enc = new TextEncoder();
+  const parts = names.map((s) => enc.encode(s));
+  const offsets = new Uint32Array(parts.length + 1);
+  parts.forEach((p, i) => (offsets[i + 1] = offsets[i] + p.length));
+  const bytes = new Uint8Array(offsets[parts.length]);
+  parts.forEach((p, i) => bytes.set(p, offsets[i]));
+  return { kind: "string", bytes, offsets };
 }

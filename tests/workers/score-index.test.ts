@@ -13,7 +13,7 @@ import { sortedIdOrder } from "../../workers/src/score-index/id-order";
 import { matchSlots } from "../../workers/src/score-index/join";
 import { blockIdText, ScoreIndex } from "../../workers/src/score-index/read";
 import { writeScoreIndex } from "../../workers/src/score-index/write";
-import { prng } from "./rank-test-graphs";
+import { prng, stringIds } from "./rank-test-graphs";
 
 let dir: string;
 let fileNo = 0;
@@ -24,16 +24,7 @@ beforeAll(async () => {
 });
 afterAll(() => rm(dir, { recursive: true, force: true }));
 
-const encoder = new TextEncoder();
 
-function stringIds(list: readonly string[]): NodeIds & { kind: "string" } {
-  const parts = list.map((s) => encoder.encode(s));
-  const offsets = new Uint32Array(parts.length + 1);
-  parts.forEach((p, i) => (offsets[i + 1] = offsets[i] + p.length));
-  const bytes = new Uint8Array(offsets[parts.length]);
-  parts.forEach((p, i) => bytes.set(p, offsets[i]));
-  return { kind: "string", bytes, offsets };
-}
 
 /** Scores with ties and a few exact zeros, summing to about 1. */
 function scoresFor(n: number, seed: number): Float64Array {

@@ -8,21 +8,22 @@ import type { ShardPool } from "./rank-pool";
 export class LanePool implements ShardPool {
   readonly threads: number;
   readonly #lanes: Lane[];
-  readonly #busy: number[];
+  readonly #busy: boolean[];
+  /** Tasks waiting for a free lane, first come first served. */
+  readonly #queue: Array<() => void> = [];
 
   /** `lanes`: worker lanes an ingest handed over (IngestResult.threads); the pool closes them. */
   constructor(lanes: Lane[]) {
     if (lanes.length < 1) throw new RangeError("a lane pool needs at least one lane. Value: 0");
     this.#lanes = [...lanes];
-    this.#busy = lanes.map(() => 0);
+    this.#busy = lanes.map(() => false);
     this.threads = lanes.length;
   }
 
   async run(task: ShardTask, signal: AbortSignal): Promise<ShardDone> {
     signal.throwIfAborted();
-    const i = this.#idlest();
+    const i = await this.#acquire(signal);
     const lane = this.#lanes[i];
-    this.#busy[i]++;
     let onAbort = () => {};
     const aborted = new Promise<never>((_, reject) => {
       onAbort = () => {
@@ -36,40 +37,67 @@ export class LanePool implements ShardPool {
       return await Promise.race([lane.runShard(task), aborted]);
     } finally {
       signal.removeEventListener("abort", onAbort);
-      if (this.#lanes[i] === lane) this.#busy[i]--;
-      // A thread that died mid-task (the retry goes to a live one).
+      // A thread that died mid-task is replaced (the retry goes to a live one).
       if (!lane.alive) this.#replace(i, lane);
+      this.#release(i);
     }
   }
 
   async formatCsvRows(task: CsvRowsTask): Promise<number> {
-    const i = this.#idlest();
-    this.#busy[i]++;
+    const i = await this.#acquire();
+    const lane = this.#lanes[i];
     try {
-      return await this.#lanes[i].formatCsvRows(task);
+      return await lane.formatCsvRows(task);
     } finally {
-      this.#busy[i]--;
+      if (!lane.alive) this.#replace(i, lane);
+      this.#release(i);
     }
   }
 
   stats(): { threads: number; busy: number } {
-    return { threads: this.threads, busy: this.#busy.reduce((a, b) => a + b, 0) };
+    return { threads: this.threads, busy: this.#busy.filter(Boolean).length };
   }
 
   async close(): Promise<void> {
     await Promise.all(this.#lanes.map((lane) => lane.close()));
   }
 
+  /**
+   * A free lane, marked busy: one task a lane at a time, so that a lane that dies takes only its own task with it.
+   * Rejects when `signal` aborts first.
+   */
+  async #acquire(signal?: AbortSignal): Promise<number> {
+    for (;;) {
+      const i = this.#busy.indexOf(false);
+      if (i >= 0) {
+        this.#busy[i] = true;
+        if (!this.#lanes[i].alive) this.#replace(i, this.#lanes[i]);
+        return i;
+      }
+      await new Promise<void>((resolve, reject) => {
+        const wake = () => {
+          signal?.removeEventListener("abort", onAbort);
+          resolve();
+        };
+        const onAbort = () => {
+          const at = this.#queue.indexOf(wake);
+          if (at >= 0) this.#queue.splice(at, 1);
+          reject(signal?.reason);
+        };
+        signal?.addEventListener("abort", onAbort, { once: true });
+        this.#queue.push(wake);
+      });
+    }
+  }
+
+  #release(i: number): void {
+    this.#busy[i] = false;
+    this.#queue.shift()?.();
+  }
+
   #replace(i: number, lane: Lane): void {
     if (this.#lanes[i] !== lane) return;
     this.#lanes[i] = new WorkerLane();
-    this.#busy[i] = 0;
     lane.close().catch(() => {});
-  }
-
-  #idlest(): number {
-    let best = 0;
-    for (let i = 1; i < this.#busy.length; i++) if (this.#busy[i] < this.#busy[best]) best = i;
-    return best;
   }
 }

@@ -69,7 +69,7 @@ export interface RankResult {
 /** Largest |Σx − 1| tolerated: rounding stays orders of magnitude below; a leak of mass does not. */
 export const MASS_DRIFT_LIMIT = 1e-8;
 
-/** The step after which the shard plan may move towards equal kernel times (measured over steps 2 to 4). */
+/** The step (of one call) after which the shard plan may move towards equal kernel times (measured over steps 2-4). */
 const REBALANCE_AFTER = 4;
 
 let runCounter = 0;
@@ -215,9 +215,11 @@ async function steps(s: RunState, params: RankParams, hooks: RankHooks, pool: Sh
     // Kernel times of steps 2 to 4 correct the plan's cost model once (the first step is left out: it faults pages
     // in and runs code not yet optimised). Each shard's fastest of the three stands for it: one slow step (another
     // process, a page fault) must not move the boundaries.
-    if (k >= 2 && k <= REBALANCE_AFTER) {
+    // Counted in this call's steps: a resumed run starts cold too.
+    const step = residuals.length;
+    if (step >= 2 && step <= REBALANCE_AFTER) {
       shards.forEach((st, i) => (bestKernelMs[i] = Math.min(bestKernelMs[i], st.attempts === 1 ? (st.kernelMs ?? Infinity) : Infinity)));
-      if (k === REBALANCE_AFTER && bestKernelMs.every(Number.isFinite)) {
+      if (step === REBALANCE_AFTER && bestKernelMs.every(Number.isFinite)) {
         const ranges = shards.map(({ index, start, end }) => ({ index, start, end, edges: s.views.inOffsets[end] - s.views.inOffsets[start] }));
         const moved = rebalanceShards(s.views.inOffsets, s.n, ranges, bestKernelMs, s.blockNodes);
         if (moved) for (const r of reported(moved)) Object.assign(shards[r.index], { start: r.start, end: r.end, edges: r.edges });

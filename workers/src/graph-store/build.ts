@@ -147,6 +147,9 @@ export async function buildGraph(
   reserve: GraphReserve | null = null,
 ): Promise<{ graph: Graph; report: BuildReport; degrees?: NodeDegrees }> {
   const built = await buildCsr(input, policy, runner, reserve);
+  // Once every array of the graph is carved, so that the touch meets no write but the run's.
+  const heap = built.graph.heap;
+  if (heap && policy.touchRunSpace && runner !== LOCAL_RUNNER) touchRunSpace(heap, built.graph.n, runner);
   // Every source is a relabelled node id, below n by construction: runs need not scan them again.
   markSourcesChecked(built.graph.sources, built.graph.n);
   return built;
@@ -279,7 +282,6 @@ async function buildCsr(
     // the graph's runs reuse.)
     const degrees = { in: inDistinct ? Uint32Array.from(inDistinct) : lengths(inOffsets), out: outDegree };
     loan?.release();
-    if (heap && policy.touchRunSpace && runner !== LOCAL_RUNNER) touchRunSpace(heap, n, runner);
     const base = { n, inOffsets, outWeight, ids: ids(), ...(heap ? { heap } : {}) };
     if (!merge || dups === 0) {
       return { graph: { ...base, m: arcs, sources, weights: null }, report: reportOf(0), degrees };
@@ -372,8 +374,9 @@ async function buildCsr(
 
 /**
  * Faults in the run space beyond what the build wrote, on one thread, without waiting: the next run's first step would
- * otherwise fault those pages on both threads (about 10 MB at scale 20). Atomic touches, as the run may start writing
- * its arrays there meanwhile; a run whose step reaches that thread first waits for the touch to end.
+ * otherwise fault those pages on both threads (about 10 MB at scale 20). Atomic touches (4-byte compare-exchanges of
+ * 0 with 0), as the run may start writing its arrays there meanwhile; a run whose step reaches that thread first waits
+ * for the touch to end.
  */
 function touchRunSpace(heap: SharedHeap, n: number, runner: PassRunner): void {
   const from = Math.ceil(heap.writtenEnd / 4096) * 4096;

@@ -108,7 +108,7 @@ async function assembleRaw(parts: ParsedPart[], policy: CountPolicy, runner: Pas
   const lanes = runner === LOCAL_RUNNER ? undefined : assemblyModule("lane-passes");
   await runner.run(tables.map((t, k) => ({ kind: "count" as const, task: { edges: bySlice[k], ...t, lanes } })));
   onThreadsFree();
-  // Tables beyond
+  // Tables beyond the second fold into it first (more than two count threads); the first two are summed on the way.
   const [first, second = null] = tables;
   for (const t of tables.slice(2)) {
     const into = second as (typeof tables)[number];

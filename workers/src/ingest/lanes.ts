@@ -85,9 +85,8 @@ export class WorkerLane implements Lane {
       else w.resolve(r);
     });
     this.worker.on("error", (e) => this.fail(e));
-    this.worker.on("exit", (code) => {
-      if (this.waiting.length > 0) this.fail(new Error(`parse worker exited (code ${code})`));
-    });
+    // A lane whose thread exited is dead, idle or not: later requests fail at once instead of waiting for ever.
+    this.worker.on("exit", (code) => this.fail(this.failure ?? new Error(`parse worker exited (code ${code})`)));
   }
 
   get alive(): boolean {

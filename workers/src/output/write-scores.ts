@@ -52,7 +52,10 @@ async function writeCsv(fh: FileHandle, nodeIds: NodeIds, scores: Float64Array, 
         if (mine(ahead)) continue;
         const [from, to] = rowsOf(ahead);
         const out = spare.pop() ?? new SharedArrayBuffer(pieceRows * bound);
-        launched.set(ahead, { out, bytes: pool.formatCsvRows({ ...task, from, to, out }) });
+        const bytes = pool.formatCsvRows({ ...task, from, to, out });
+        // Awaited in its turn; a failure before then must not count as unhandled.
+        bytes.catch(() => {});
+        launched.set(ahead, { out, bytes });
       }
       let bytes: Uint8Array;
       let shared: SharedArrayBuffer | null = null;

@@ -16,11 +16,12 @@ export function assemblyModule(name: AssemblyName): WebAssembly.Module {
   if (!module) {
     // Compiled straight to optimised code: the baseline tier runs a first call about four times slower, and some of
     // these run once per step or once per file (the step kernel, the rank order). They are small: a few ms in all.
+    const restore = !process.execArgv.includes("--no-liftoff");
     setFlagsFromString("--no-liftoff");
     try {
       module = new WebAssembly.Module(readFileSync(assemblyFile(name)));
     } finally {
-      setFlagsFromString("--liftoff");
+      if (restore) setFlagsFromString("--liftoff");
     }
     compiled.set(name, module);
   }
