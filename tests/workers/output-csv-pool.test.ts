@@ -30,20 +30,24 @@ function scores(seed: number): Float64Array {
   return s;
 }
 
-async function both(ids: NodeIds, s: Float64Array): Promise<[string, string]> {
+/** The file written without a pool and with one, and how many pieces the pool's threads formatted. */
+async function both(ids: NodeIds, s: Float64Array): Promise<[string, string, number]> {
   const here = join(dir, `here-${ids.kind}.csv`);
   const threads = join(dir, `threads-${ids.kind}.csv`);
+  let pieces = 0;
+  const counted: CsvRowPool = { threads: pool.threads, formatCsvRows: (task) => (pieces++, pool.formatCsvRows(task)) };
   await writeScores(here, "csv", ids, s, {});
-  await writeScores(threads, "csv", ids, s, {}, { rowPool: pool });
-  return [await readFile(here, "utf8"), await readFile(threads, "utf8")];
+  await writeScores(threads, "csv", ids, s, {}, { rowPool: counted });
+  return [await readFile(here, "utf8"), await readFile(threads, "utf8"), pieces];
 }
 
 describe("CSV rows on pool threads", () => {
-  it("match the calling thread's bytes for integer ids up to 2^64 - 1", async () => {
+  it("stay on the calling thread for integer ids up to 2^64 - 1, with a pool at hand or not", async () => {
     const rnd = prng(3);
     const ids = new BigUint64Array(N);
     for (let i = 0; i < N; i++) ids[i] = i % 5 === 0 ? 2n ** 64n - 1n - BigInt(i) : BigInt(Math.floor(rnd() * 2 ** 53));
-    const [here, threads] = await both({ kind: "integer", ids }, scores(1));
+    const [here, threads, pieces] = await both({ kind: "integer", ids }, scores(1));
+    expect(pieces).toBe(0);
     expect(threads).toBe(here);
     const lines = here.trimEnd().split("\n");
     expect(lines).toHaveLength(N + 1);
@@ -54,7 +58,8 @@ describe("CSV rows on pool threads", () => {
 
   it("match for string ids that need quoting", async () => {
     const ids = stringIds(Array.from({ length: N }, (_, i) => (i % 11 === 0 ? `page "${i}", kestrel` : `isle-${i}-ø`)));
-    const [here, threads] = await both(ids, scores(2));
+    const [here, threads, pieces] = await both(ids, scores(2));
+    expect(pieces).toBeGreaterThan(0);
     expect(threads).toBe(here);
     expect(here).toContain('"page ""0"", kestrel",');
   });

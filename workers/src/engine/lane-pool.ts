@@ -1,19 +1,19 @@
 // The threads an ingest parsed on, kept for the run that follows: a command line ranks one file and exits, and
 // starting a second set of threads (a RankPool) costs it about 80 ms of CPU per thread while both cores are busy.
 import type { CsvRowsTask } from "../output/csv-rows";
-import { WorkerLane, type Lane } from "../ingest/lanes";
+import { WorkerLane } from "../ingest/lanes";
 import type { ShardDone, ShardTask } from "../tasks/rank-shard-task";
 import type { ShardPool } from "./rank-pool";
 
 export class LanePool implements ShardPool {
   readonly threads: number;
-  readonly #lanes: Lane[];
+  readonly #lanes: WorkerLane[];
   readonly #busy: boolean[];
   /** Tasks waiting for a free lane, first come first served. */
   readonly #queue: Array<() => void> = [];
 
   /** `lanes`: worker lanes an ingest handed over (IngestResult.threads); the pool closes them. */
-  constructor(lanes: Lane[]) {
+  constructor(lanes: WorkerLane[]) {
     if (lanes.length < 1) throw new RangeError("a lane pool needs at least one lane. Value: 0");
     this.#lanes = [...lanes];
     this.#busy = lanes.map(() => false);
@@ -95,7 +95,7 @@ export class LanePool implements ShardPool {
     this.#queue.shift()?.();
   }
 
-  #replace(i: number, lane: Lane): void {
+  #replace(i: number, lane: WorkerLane): void {
     if (this.#lanes[i] !== lane) return;
     this.#lanes[i] = new WorkerLane();
     lane.close().catch(() => {});

@@ -374,7 +374,7 @@ async function buildCsr(
 
 /**
  * Faults in the run space beyond what the build wrote, on one thread, without waiting: the next run's first step would
- * otherwise fault those pages on both threads (about 10 MB at scale 20). Atomic touches (4-byte compare-exchanges of
+ * otherwise fault those pages on both threads (it writes x and c there, 16 bytes a node). Atomic touches (4-byte compare-exchanges of
  * 0 with 0), as the run may start writing its arrays there meanwhile; a run whose step reaches that thread first waits
  * for the touch to end.
  */

@@ -129,8 +129,6 @@ async function assembleRaw(parts: ParsedPart[], policy: CountPolicy, runner: Pas
   const idsRoom = new BigUint64Array(maxId + 1);
   // Ids below 2^32 written as the low words of the 64-bit slots (no BigInt per node; the high words stay 0).
   const idWords = new Uint32Array(idsRoom.buffer);
-  const outRoom = outRaw;
-  const inRoom = inRaw;
   const selfPerArc = policy.directed ? (policy.dropSelfLoops ? 1 : 0) : policy.dropSelfLoops ? 2 : 1;
   let arcs = 0;
   let dropped = 0;
@@ -146,20 +144,20 @@ async function assembleRaw(parts: ParsedPart[], policy: CountPolicy, runner: Pas
     const self = (selfRaw ? selfRaw[x] : 0) + (selfRaw2 ? selfRaw2[x] : 0);
     if (policy.dropSelfLoops) dropped += self;
     if (policy.directed) {
-      outRoom[c] = o - selfPerArc * self;
-      inRoom[c] = i - selfPerArc * self;
+      outRaw[c] = o - selfPerArc * self;
+      inRaw[c] = i - selfPerArc * self;
     } else {
-      outRoom[c] = o + i - selfPerArc * self;
-      inRoom[c] = outRoom[c];
+      outRaw[c] = o + i - selfPerArc * self;
+      inRaw[c] = outRaw[c];
     }
-    arcs += outRoom[c];
+    arcs += outRaw[c];
     map[x] = c;
     idWords[2 * c++] = x;
   }
   const n = c;
   const ids = idsRoom.subarray(0, n);
-  const out = outRoom.subarray(0, n);
-  const inn = inRoom.subarray(0, n);
+  const out = outRaw.subarray(0, n);
+  const inn = inRaw.subarray(0, n);
   return {
     n,
     ids: { kind: "integer", ids },

@@ -54,7 +54,7 @@ export interface IngestResult {
   /** Wall times; parseBusyMs adds up the time parse lanes spent parsing (CPU time, across threads). */
   timings: { parseMs: number; parseBusyMs: number; numberMs: number; buildMs: number; totalMs: number };
   /** With run.keepThreads, the worker threads that parsed the file (none for a small file): the caller closes them. */
-  threads?: Lane[];
+  threads?: WorkerLane[];
 }
 
 // Chunks queued per worker: enough that a busy calling thread (reading, hashing) does not leave workers idle.
@@ -69,10 +69,10 @@ export async function ingestEdgeFile(path: string, options: Partial<GraphOptions
   const textBytes = reader.gzip ? reader.size * 4 : reader.size;
   const workerCount = threads < 2 || textBytes < limits.parallelMinBytes ? 0 : threads;
   // Worker threads start now; until one is up, chunks are parsed here (lane index workerCount).
-  const lanes: Lane[] = Array.from({ length: workerCount }, () => new WorkerLane());
-  // Lanes from the front that the caller keeps (run.keepThreads): not stopped here.
+  const workers = Array.from({ length: workerCount }, () => new WorkerLane());
+  const lanes: Lane[] = [...workers, new LocalLane()];
+  // Worker lanes the caller keeps (run.keepThreads): not stopped here.
   let kept = 0;
-  lanes.push(new LocalLane());
   try {
     const first = await reader.next();
     if (reader.size === 0 || !first) throw new IngestError("empty-file", path, `${path}: the file is empty`);
@@ -144,7 +144,7 @@ export async function ingestEdgeFile(path: string, options: Partial<GraphOptions
     checkCounts(path, reader.size, counts, badLines, opts.maxBadLines);
 
     run.onProgress?.({ phase: "build", bytesRead: reader.bytesRead, totalBytes: reader.size, rows: counts.lines });
-    const runner = workerCount > 0 ? laneRunner(lanes.slice(0, workerCount)) : LOCAL_RUNNER;
+    const runner = workerCount > 0 ? laneRunner(workers) : LOCAL_RUNNER;
     // A big graph's heap is made as soon as the threads are free, so that they fault in its pages while this thread
     // numbers the nodes. Its size: at most every stored id a node, and the arcs the policies leave.
     const dropSelf = opts.selfLoops === "drop";
@@ -236,7 +236,7 @@ export async function ingestEdgeFile(path: string, options: Partial<GraphOptions
       },
     };
     if (run.keepThreads && workerCount > 0) {
-      result.threads = lanes.slice(0, workerCount);
+      result.threads = workers;
       kept = workerCount;
     }
     return result;

@@ -5,7 +5,6 @@
 import type { Worker } from "node:worker_threads";
 import { runPass, type PassTask } from "../graph-store/build";
 import type { CsvRowsTask } from "../output/csv-rows";
-import rankShard, { formatCsvRows } from "../tasks/rank-shard";
 import type { ShardDone, ShardTask } from "../tasks/rank-shard-task";
 import { parseChunk, type ChunkAck, type LaneReply, type LaneRequest } from "./lane-protocol";
 import { LineParser, type IdMode, type ParsedPart, type ParserConfig } from "./line-parser";
@@ -19,24 +18,17 @@ export interface Lane {
   inflight: number;
   /** Able to take chunks without delay (a worker lane once its thread has started). */
   readonly ready: boolean;
-  /** False once the lane's thread has died (every later request fails). */
-  readonly alive: boolean;
   init(cfg: ParserConfig): void;
   send(chunk: Chunk, first: boolean): Promise<ChunkAck>;
   finish(mode: IdMode): Promise<ParsedPart>;
   /** Run one slice of a graph-build pass. */
   runPass(task: PassTask): Promise<number>;
-  /** After the ingest: one shard step of a run (see LanePool). */
-  runShard(task: ShardTask): Promise<ShardDone>;
-  /** After the ingest: CSV score rows; resolves with the bytes written. */
-  formatCsvRows(task: CsvRowsTask): Promise<number>;
   close(): Promise<void>;
 }
 
 export class LocalLane implements Lane {
   inflight = 0;
   readonly ready = true;
-  readonly alive = true;
   private parser: LineParser | null = null;
   init(cfg: ParserConfig): void {
     this.parser = new LineParser(cfg);
@@ -51,12 +43,6 @@ export class LocalLane implements Lane {
   }
   async runPass(task: PassTask): Promise<number> {
     return runPass(task);
-  }
-  async runShard(task: ShardTask): Promise<ShardDone> {
-    return rankShard(task);
-  }
-  async formatCsvRows(task: CsvRowsTask): Promise<number> {
-    return formatCsvRows(task);
   }
   private spent(): LineParser {
     if (!this.parser) throw new Error("lane used before init");
@@ -89,6 +75,7 @@ export class WorkerLane implements Lane {
     this.worker.on("exit", (code) => this.fail(this.failure ?? new Error(`parse worker exited (code ${code})`)));
   }
 
+  /** False once the thread has died (every later request fails). */
   get alive(): boolean {
     return this.failure === null;
   }
@@ -117,12 +104,14 @@ export class WorkerLane implements Lane {
     return reply.result;
   }
 
+  /** After the ingest: one shard step of a run (see LanePool). */
   async runShard(task: ShardTask): Promise<ShardDone> {
     const reply = await this.request({ type: "shard", task });
     if (reply.type !== "shardDone") throw new Error("parse worker: expected a shard result");
     return reply.done;
   }
 
+  /** After the ingest: CSV score rows; resolves with the bytes written. */
   async formatCsvRows(task: CsvRowsTask): Promise<number> {
     const reply = await this.request({ type: "rows", task });
     if (reply.type !== "passed") throw new Error("parse worker: expected a byte count");

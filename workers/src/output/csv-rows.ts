@@ -47,17 +47,14 @@ function putUint(buf: Uint8Array, at: number, v: number): number {
   return at + digits;
 }
 
-/** Appends integer id v (two 32-bit words, low first) as decimal digits. */
-function putIntegerId(buf: Uint8Array, at: number, words: Uint32Array, v: number): number {
-  const lo = words[2 * v];
-  const hi = words[2 * v + 1];
-  if (hi < 0x200000) return putUint(buf, at, hi * 4294967296 + lo);
-  return putAscii(buf, at, ((BigInt(hi) << 32n) | BigInt(lo)).toString());
-}
-
 /** Appends a node id as a CSV field: integers as digits, strings quoted when they hold '"', ',', CR or LF. */
 function putId(buf: Uint8Array, at: number, ids: CsvIds, v: number): number {
-  if (ids.kind === "integer") return putIntegerId(buf, at, ids.words, v);
+  if (ids.kind === "integer") {
+    const lo = ids.words[2 * v];
+    const hi = ids.words[2 * v + 1];
+    if (hi < 0x200000) return putUint(buf, at, hi * 4294967296 + lo);
+    return putAscii(buf, at, ((BigInt(hi) << 32n) | BigInt(lo)).toString());
+  }
   const bytes = ids.bytes.subarray(ids.offsets[v], ids.offsets[v + 1]);
   let plain = true;
   for (let i = 0; i < bytes.length; i++) {
@@ -104,9 +101,9 @@ export class ScoreText {
   readonly #ids: number;
   readonly #scores: number;
   readonly #out: number;
-  #bytes: Uint8Array;
-  #words: Uint32Array;
-  #values: Float64Array;
+  readonly #bytes: Uint8Array;
+  readonly #words: Uint32Array;
+  readonly #values: Float64Array;
 
   private constructor(module: WebAssembly.Module) {
     this.#x = new WebAssembly.Instance(module, {}).exports as unknown as ScoreTextExports;
@@ -166,13 +163,7 @@ export class ScoreText {
         at += bytes;
         j += this.#x.done();
         if (j < count) {
-          const v = order[start + j];
-          at = putIntegerId(out, at, words, v);
-          out[at++] = COMMA;
-          at = putAscii(out, at, String(scores[v]));
-          out[at++] = COMMA;
-          at = putUint(out, at, start + j + 1);
-          out[at++] = NEWLINE;
+          at += formatRows({ kind: "integer", words }, scores, order, start + j, start + j + 1, out.subarray(at));
           j++;
         }
       }
